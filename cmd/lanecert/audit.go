@@ -1,0 +1,177 @@
+package main
+
+import (
+	"errors"
+	"fmt"
+	"io"
+	"strings"
+
+	"github.com/spf13/cobra"
+
+	"lanecert/dual"
+	"lanecert/flow"
+	"lanecert/reports"
+)
+
+// auditOptions are the audit command's settings.
+type auditOptions struct {
+	files     flow.Files
+	columns   []string
+	tolerance string
+	format    string
+	output    string
+	rows      int
+	allLanes  bool
+	showNodes bool
+	// shownAs, if set, names the inputs in the report instead of the paths.
+	shownAs *reports.Inputs
+}
+
+const defaultRows = 30
+
+func addInputFlags(cmd *cobra.Command, o *auditOptions) {
+	f := cmd.Flags()
+	f.StringVar(&o.files.Network, "network", "", "lane table (CSV) or DIMACS .min file")
+	f.StringVar(&o.files.Nodes, "nodes", "", "node table (CSV: node and supply, or supply and demand)")
+	f.StringVar(&o.files.Plan, "plan", "", "plan file: CSV keyed by lane or by from,to, or DIMACS f lines (default: the lane table's flow column)")
+	f.StringArrayVar(&o.columns, "col", nil, "read a column under another header: OURS=THEIRS, e.g. cost=rate_usd (repeatable)")
+	f.BoolVar(&o.files.Table.DecimalComma, "decimal-comma", false, "numbers in the CSV files use a decimal comma (12,50)")
+	f.StringVar(&o.tolerance, "tolerance", "", "round plan quantities lying within this distance of the network's decimal places (for plans from floating-point solvers); the report lists each rounding")
+}
+
+func addOutputFlags(cmd *cobra.Command, o *auditOptions) {
+	f := cmd.Flags()
+	f.StringVar(&o.format, "format", "table", "output format: table, json, csv or markdown")
+	f.StringVarP(&o.output, "output", "o", "", "write the report to this file (atomically) instead of standard output")
+	f.IntVar(&o.rows, "rows", defaultRows, "lanes shown in the lane table, problem lanes first (0: all)")
+	f.BoolVar(&o.allLanes, "all-lanes", false, "show every lane in the lane table")
+	f.BoolVar(&o.showNodes, "show-nodes", false, "add the per-node table (balance and potential)")
+}
+
+func newAuditCmd(s streams, runF func(*auditOptions) error) *cobra.Command {
+	o := &auditOptions{}
+	cmd := &cobra.Command{
+		Use:   "audit [NETWORK [PLAN]]",
+		Short: "Check a plan: feasible? cheapest? if not, which reroute saves how much",
+		Long: `Audit a shipment plan against its network. The network is a lane table
+(CSV: from, to, cost, and optional lane, min, max, flow; plus --nodes with
+the node table) or a DIMACS minimum-cost flow file. The plan is the lane
+table's flow column, or --plan: a CSV keyed by lane or by from,to, or DIMACS
+solution lines (f SRC DST FLOW).
+
+The verdict comes with a certificate: node potentials whose dual objective
+equals the plan's cost (optimal), improving cycles with their exact saving
+(not optimal), or the broken bounds and balances (plan infeasible).
+
+` + exitHelp,
+		Args: cobra.MaximumNArgs(2),
+		RunE: func(cmd *cobra.Command, args []string) error {
+			if err := o.positional(args); err != nil {
+				return err
+			}
+			if runF != nil {
+				return runF(o)
+			}
+			return runAudit(o, s)
+		},
+	}
+	addInputFlags(cmd, o)
+	addOutputFlags(cmd, o)
+	return cmd
+}
+
+// positional fills network and plan from the arguments.
+func (o *auditOptions) positional(args []string) error {
+	if len(args) > 0 {
+		if o.files.Network != "" {
+			return errors.New("give the network as an argument or with --network, not both")
+		}
+		o.files.Network = args[0]
+	}
+	if len(args) > 1 {
+		if o.files.Plan != "" {
+			return errors.New("give the plan as an argument or with --plan, not both")
+		}
+		o.files.Plan = args[1]
+	}
+	if o.files.Network == "" {
+		return errors.New("no network: give a lane table or DIMACS file (see lanecert audit --help)")
+	}
+	return nil
+}
+
+// prepare turns the string flags into the library's options.
+func (o *auditOptions) prepare() error {
+	if len(o.columns) > 0 {
+		o.files.Table.Columns = map[string]string{}
+		for _, c := range o.columns {
+			ours, theirs, ok := strings.Cut(c, "=")
+			if !ok || strings.TrimSpace(ours) == "" || strings.TrimSpace(theirs) == "" {
+				return fmt.Errorf("--col %q: want OURS=THEIRS, e.g. cost=rate_usd", c)
+			}
+			o.files.Table.Columns[theirs] = ours
+		}
+	}
+	if o.tolerance != "" {
+		d, err := flow.ParseDecimal(o.tolerance)
+		if err != nil || d.Mant < 0 {
+			return fmt.Errorf("--tolerance %q: want a non-negative decimal such as 0.000001", o.tolerance)
+		}
+		o.files.Tolerance = &d
+	}
+	if o.allLanes {
+		o.rows = 0
+	}
+	if o.rows < 0 {
+		return fmt.Errorf("--rows %d: want 0 (all) or more", o.rows)
+	}
+	return nil
+}
+
+func runAudit(o *auditOptions, s streams) error {
+	if err := o.prepare(); err != nil {
+		return err
+	}
+	format, err := reports.ParseFormat(o.format)
+	if err != nil {
+		return err
+	}
+	in, err := flow.LoadFiles(o.files)
+	if err != nil {
+		return err
+	}
+	if in.Plan == nil {
+		return errors.New("no plan: the lane table has no flow column; give one with --plan")
+	}
+	a, err := dual.Check(in.Net, in.Plan.Flow)
+	if err != nil {
+		return err
+	}
+	names := reports.Inputs{Network: o.files.Network, Nodes: o.files.Nodes, Plan: in.PlanFile}
+	if o.shownAs != nil {
+		names = *o.shownAs
+	}
+	names.Tolerance = o.tolerance
+	doc := reports.Build(a, names, in.Plan.Rounded)
+	ropt := reports.Options{Rows: o.rows, MoreHint: " (--all-lanes shows them)", Nodes: o.showNodes}
+	write := func(w io.Writer) error { return reports.Write(w, doc, format, ropt) }
+	if o.output != "" {
+		err = reports.WriteAtomic(o.output, []string{o.files.Network, o.files.Nodes, o.files.Plan}, write)
+	} else {
+		err = write(s.out)
+	}
+	if err != nil {
+		return err
+	}
+	return verdictStatus(a.Verdict)
+}
+
+func verdictStatus(v dual.Verdict) error {
+	switch v {
+	case dual.Optimal:
+		return nil
+	case dual.NotOptimal:
+		return &statusError{exitNotOptimal}
+	}
+	return &statusError{exitPlanInfeasible}
+}

@@ -1,0 +1,132 @@
+package flow
+
+import (
+	"errors"
+	"fmt"
+	"sort"
+	"strings"
+)
+
+// Sentinel errors wrapped by ParseError, so callers can test with errors.Is.
+var (
+	ErrEmpty         = errors.New("the file is empty: want a header row and at least one row")
+	ErrMissingColumn = errors.New("missing column")
+	ErrUnknownNode   = errors.New("unknown node")
+	ErrUnknownLane   = errors.New("unknown lane")
+	ErrDuplicate     = errors.New("duplicate")
+	ErrBounds        = errors.New("minimum above capacity")
+	ErrNegative      = errors.New("must not be negative")
+	ErrSyntax        = errors.New("malformed line")
+	ErrAmbiguous     = errors.New("ambiguous")
+)
+
+// ParseError is an input error with its position. Line and Col are 1-based;
+// Col counts bytes from the start of the line (0 when the whole line or file
+// is meant). Field names the column or the DIMACS field.
+type ParseError struct {
+	File      string
+	Line, Col int
+	Field     string
+	Text      string // the offending text, if any
+	Err       error
+}
+
+func (e *ParseError) Error() string {
+	var b strings.Builder
+	b.WriteString(e.File)
+	if e.Line > 0 {
+		fmt.Fprintf(&b, ":%d", e.Line)
+		if e.Col > 0 {
+			fmt.Fprintf(&b, ":%d", e.Col)
+		}
+	}
+	b.WriteString(": ")
+	if e.Field != "" {
+		b.WriteString(e.Field)
+		if e.Text != "" {
+			fmt.Fprintf(&b, " %q", clip(e.Text))
+		}
+		b.WriteString(": ")
+	} else if e.Text != "" {
+		fmt.Fprintf(&b, "%q: ", clip(e.Text))
+	}
+	b.WriteString(e.Err.Error())
+	return b.String()
+}
+
+func (e *ParseError) Unwrap() error { return e.Err }
+
+func clip(s string) string {
+	const max = 40
+	if len(s) > max {
+		return s[:max] + "…"
+	}
+	return s
+}
+
+// ErrorList is a list of input errors sorted by file and position. Its
+// message shows the first few and counts the rest.
+type ErrorList []*ParseError
+
+// maxShown is how many errors an ErrorList message spells out.
+const maxShown = 10
+
+// maxKept bounds how many errors a reader collects before it stops.
+const maxKept = 1000
+
+func (l ErrorList) Error() string {
+	var b strings.Builder
+	for i, e := range l {
+		if i == maxShown {
+			fmt.Fprintf(&b, "\n(and %d more errors)", len(l)-maxShown)
+			break
+		}
+		if i > 0 {
+			b.WriteByte('\n')
+		}
+		b.WriteString(e.Error())
+	}
+	return b.String()
+}
+
+// Unwrap returns the errors, so errors.Is and errors.As see each of them.
+func (l ErrorList) Unwrap() []error {
+	out := make([]error, len(l))
+	for i, e := range l {
+		out[i] = e
+	}
+	return out
+}
+
+// sortAndErr sorts l by position and returns it as an error, or nil when
+// it is empty.
+func (l ErrorList) sortAndErr() error {
+	if len(l) == 0 {
+		return nil
+	}
+	sort.SliceStable(l, func(i, j int) bool {
+		a, b := l[i], l[j]
+		if a.File != b.File {
+			return a.File < b.File
+		}
+		if a.Line != b.Line {
+			return a.Line < b.Line
+		}
+		return a.Col < b.Col
+	})
+	return l
+}
+
+// errs collects parse errors up to maxKept.
+type errs struct {
+	list ErrorList
+	file string
+}
+
+func (c *errs) add(line, col int, field, text string, err error) {
+	if len(c.list) < maxKept {
+		c.list = append(c.list, &ParseError{File: c.file, Line: line, Col: col, Field: field, Text: text, Err: err})
+	}
+}
+
+func (c *errs) full() bool { return len(c.list) >= maxKept }

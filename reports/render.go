@@ -1,0 +1,417 @@
+package reports
+
+import (
+	"encoding/csv"
+	"encoding/json"
+	"fmt"
+	"io"
+	"strings"
+
+	"github.com/olekukonko/tablewriter"
+	"github.com/olekukonko/tablewriter/renderer"
+	"github.com/olekukonko/tablewriter/tw"
+)
+
+// Format is an output format.
+type Format string
+
+// The formats Write knows.
+const (
+	Text     Format = "table"
+	JSON     Format = "json"
+	CSV      Format = "csv"
+	Markdown Format = "markdown"
+)
+
+// ParseFormat returns the format named s.
+func ParseFormat(s string) (Format, error) {
+	switch f := Format(strings.ToLower(s)); f {
+	case Text, JSON, CSV, Markdown:
+		return f, nil
+	case "text", "md":
+		if f == "md" {
+			return Markdown, nil
+		}
+		return Text, nil
+	}
+	return "", fmt.Errorf("reports: unknown format %q: want table, json, csv or markdown", s)
+}
+
+// Options controls the human formats (table and Markdown).
+type Options struct {
+	// Rows is how many lanes the lane table shows; 0 shows all.
+	Rows int
+	// MoreHint is appended to the line that counts lanes not shown.
+	MoreHint string
+	// Nodes adds the per-node table.
+	Nodes bool
+}
+
+// Write renders d in format f.
+func Write(w io.Writer, d *Document, f Format, opt Options) error {
+	switch f {
+	case JSON:
+		return writeJSON(w, d)
+	case CSV:
+		return writeCSV(w, d)
+	case Markdown:
+		return writeHuman(w, d, opt, true)
+	}
+	return writeHuman(w, d, opt, false)
+}
+
+func writeJSON(w io.Writer, d *Document) error {
+	enc := json.NewEncoder(w)
+	enc.SetIndent("", "  ")
+	enc.SetEscapeHTML(true)
+	return enc.Encode(d)
+}
+
+// CSVHeader is the fixed part of the CSV lane table's header.
+var csvHeader = []string{"lane", "from", "to", "cost", "flow", "min", "max", "state", "reduced_cost", "slack_ok"}
+
+func writeCSV(w io.Writer, d *Document) error {
+	cw := csv.NewWriter(w)
+	head := append(append([]string(nil), csvHeader...), d.ExtraColumns...)
+	if err := cw.Write(SafeCells(head)); err != nil {
+		return err
+	}
+	for _, l := range d.Lanes {
+		rec := []string{l.ID, l.From, l.To, l.Cost, l.Flow, l.Min, deref(l.Max, ""), l.State, deref(l.ReducedCost, ""), boolText(l.SlackOK)}
+		for _, c := range d.ExtraColumns {
+			rec = append(rec, l.Extra[c])
+		}
+		if err := cw.Write(SafeCells(rec)); err != nil {
+			return err
+		}
+	}
+	cw.Flush()
+	return cw.Error()
+}
+
+// SafeCells neutralises spreadsheet formula injection: a cell that starts
+// with '=', '+', '-', '@', tab or carriage return and is not a plain number
+// gets a leading apostrophe, following the OWASP guidance on CSV injection.
+func SafeCells(rec []string) []string {
+	out := make([]string, len(rec))
+	for i, c := range rec {
+		out[i] = c
+		if c == "" || strings.IndexByte("=+-@\t\r", c[0]) < 0 || isNumber(c) {
+			continue
+		}
+		out[i] = "'" + c
+	}
+	return out
+}
+
+func isNumber(s string) bool {
+	i := 0
+	if i < len(s) && (s[i] == '-' || s[i] == '+') {
+		i++
+	}
+	digits, point := 0, false
+	for ; i < len(s); i++ {
+		switch {
+		case s[i] >= '0' && s[i] <= '9':
+			digits++
+		case s[i] == '.' && !point:
+			point = true
+		default:
+			return false
+		}
+	}
+	return digits > 0
+}
+
+func deref(p *string, def string) string {
+	if p == nil {
+		return def
+	}
+	return *p
+}
+
+func boolText(b *bool) string {
+	switch {
+	case b == nil:
+		return ""
+	case *b:
+		return "yes"
+	}
+	return "no"
+}
+
+// verdictLine says the verdict in words.
+func verdictLine(d *Document) string {
+	switch d.Verdict {
+	case "optimal":
+		return "OPTIMAL: no plan for this network costs less."
+	case "not-optimal":
+		return "NOT OPTIMAL: a cheaper plan exists; the reroutes below prove it."
+	}
+	return "PLAN INFEASIBLE: the plan breaks the bounds or balances listed below."
+}
+
+func writeHuman(w io.Writer, d *Document, opt Options, md bool) error {
+	p := &printer{w: w, md: md}
+	if md {
+		p.line("# lanecert audit")
+		p.line("")
+		p.line("**%s**", verdictLine(d))
+	} else {
+		p.line("%s", verdictLine(d))
+	}
+	p.line("")
+	p.kv("Network", netLine(d))
+	p.kv("Plan", d.Inputs.Plan)
+	p.kv("Plan cost", d.PlanCost)
+	if d.DualObjective != nil {
+		p.kv("Dual objective", fmt.Sprintf("%s  (supply terms %s, minimum terms %s, capacity terms %s) = plan cost",
+			*d.DualObjective, d.DualTerms.Supply, d.DualTerms.Minimum, d.DualTerms.Capacity))
+	}
+	s := d.States
+	p.kv("Lanes", fmt.Sprintf("%d in use, %d unused, %d at capacity, %d at minimum, %d fixed, %d out of bounds",
+		s.InUse, s.Unused, s.AtCapacity, s.AtMinimum, s.Fixed, s.OutOfBounds))
+	if d.Potentials != "" {
+		how := "set by the lanes in use"
+		if d.Potentials == "shortest-paths" {
+			how = "lanes in use leave them open; shortest paths over the residual network fix them"
+		}
+		p.kv("Potentials", fmt.Sprintf("%s (%d piece(s) of lanes strictly between bounds)", how, d.Pieces))
+		p.kv("Broken lanes", fmt.Sprintf("%d (reduced cost of the wrong sign for the lane's state)", d.BrokenLanes))
+	}
+	p.kv("Supply/demand", fmt.Sprintf("total supply %s, total demand %s", d.Totals.Supply, d.Totals.Demand))
+	if len(d.Kept) > 0 {
+		var parts []string
+		for _, k := range d.Kept {
+			parts = append(parts, fmt.Sprintf("%s keeps %s", k.Node, k.Quantity))
+		}
+		p.kv("Kept at origin", fmt.Sprintf("%s in all: %s", d.Totals.Kept, strings.Join(parts, "; ")))
+	}
+	if d.Inputs.Tolerance != "" {
+		p.kv("Tolerance", fmt.Sprintf("%s: %d plan quantities rounded", d.Inputs.Tolerance, len(d.Rounded)))
+		for _, r := range d.Rounded {
+			p.line("  lane %s: %s read as %s", r.Lane, r.Given, r.Used)
+		}
+	}
+	if len(d.Violations) > 0 {
+		p.line("")
+		p.head("Violations")
+		for _, v := range d.Violations {
+			p.bullet(violationText(v))
+		}
+	}
+	for i, c := range d.Cycles {
+		p.line("")
+		p.head(fmt.Sprintf("Reroute %d", i+1))
+		if c.Unbounded {
+			p.line("Moving units around this cycle saves %s per unit and no bound stops it: the cost falls without limit.", c.SavingPerUnit)
+		} else {
+			p.line("Move %s units around this cycle: it saves %s per unit, %s in all.", *c.Units, c.SavingPerUnit, *c.TotalSaving)
+		}
+		if err := p.table([]string{"change", "lane", "from", "to", "rate"}, stepRows(c), []tw.Align{tw.AlignLeft, tw.AlignLeft, tw.AlignLeft, tw.AlignLeft, tw.AlignRight}); err != nil {
+			return err
+		}
+	}
+	p.line("")
+	p.head("Lanes")
+	rows, shown := laneRows(d, opt.Rows)
+	if err := p.table([]string{"lane", "from", "to", "rate", "flow", "bounds", "state", "reduced cost", "slackness"}, rows,
+		[]tw.Align{tw.AlignLeft, tw.AlignLeft, tw.AlignLeft, tw.AlignRight, tw.AlignRight, tw.AlignRight, tw.AlignLeft, tw.AlignRight, tw.AlignLeft}); err != nil {
+		return err
+	}
+	if rest := len(d.Lanes) - shown; rest > 0 {
+		p.line("... %d more lane(s) not shown%s", rest, opt.MoreHint)
+	}
+	if opt.Nodes {
+		p.line("")
+		p.head("Nodes")
+		var nrows [][]string
+		for _, nd := range d.Nodes {
+			nrows = append(nrows, []string{nd.ID, nd.Supply, nd.NetOut, deref(nd.Potential, "-")})
+		}
+		if err := p.table([]string{"node", "supply", "net out", "potential"}, nrows, []tw.Align{tw.AlignLeft, tw.AlignRight, tw.AlignRight, tw.AlignRight}); err != nil {
+			return err
+		}
+	}
+	p.line("")
+	p.line("%s", d.Caution)
+	return p.err
+}
+
+func netLine(d *Document) string {
+	s := d.Inputs.Network
+	if d.Inputs.Nodes != "" {
+		s += " + " + d.Inputs.Nodes
+	}
+	return fmt.Sprintf("%s (%d nodes, %d lanes)", s, d.NodeCount, d.LaneCount)
+}
+
+func violationText(v Violation) string {
+	max := "no limit"
+	if v.Max != nil {
+		max = *v.Max
+	}
+	switch v.Kind {
+	case "below-minimum":
+		return fmt.Sprintf("lane %s carries %s, below its minimum %s", v.Lane, v.Actual, v.Min)
+	case "above-capacity":
+		return fmt.Sprintf("lane %s carries %s, above its capacity %s", v.Lane, v.Actual, max)
+	case "unbalanced":
+		if v.Max != nil && v.Min == *v.Max {
+			return fmt.Sprintf("node %s: outflow minus inflow is %s, its supply is %s", v.Node, v.Actual, v.Min)
+		}
+		return fmt.Sprintf("node %s: outflow minus inflow is %s, want %s to %s", v.Node, v.Actual, v.Min, max)
+	}
+	return fmt.Sprintf("total demand %s exceeds total supply %s: no plan can meet it", v.Min, v.Actual)
+}
+
+func stepRows(c CycleDoc) [][]string {
+	var rows [][]string
+	for _, s := range c.Steps {
+		switch s.Change {
+		case "keep-more", "keep-less":
+			what := "ship less from origin (keep more)"
+			if s.Change == "keep-less" {
+				what = "ship more from origin (keep less)"
+			}
+			rows = append(rows, []string{what, "-", s.From, "-", "0"})
+		default:
+			sign := "+ more"
+			if s.Change == "less" {
+				sign = "- less"
+			}
+			rows = append(rows, []string{sign, s.Lane, s.From, s.To, s.Rate})
+		}
+	}
+	return rows
+}
+
+func laneRows(d *Document, limit int) ([][]string, int) {
+	n := len(d.order)
+	if limit > 0 && limit < n {
+		n = limit
+	}
+	rows := make([][]string, 0, n)
+	for _, e := range d.order[:n] {
+		l := d.Lanes[e]
+		slack := "-"
+		if l.SlackOK != nil {
+			slack = "ok"
+			if !*l.SlackOK {
+				slack = "BROKEN"
+			}
+		}
+		rows = append(rows, []string{l.ID, l.From, l.To, l.Cost, l.Flow, l.Min + ".." + deref(l.Max, "no limit"),
+			strings.ReplaceAll(l.State, "-", " "), deref(l.ReducedCost, "-"), slack})
+	}
+	return rows, n
+}
+
+// printer writes lines and tables, keeping the first error.
+type printer struct {
+	w   io.Writer
+	md  bool
+	err error
+}
+
+func (p *printer) line(format string, args ...any) {
+	if p.err == nil {
+		_, p.err = fmt.Fprintf(p.w, format+"\n", args...)
+	}
+}
+
+func (p *printer) kv(k, v string) {
+	if p.md {
+		p.line("- **%s:** %s", k, mdEscape(v))
+		return
+	}
+	p.line("%-16s %s", k, v)
+}
+
+func (p *printer) head(s string) {
+	if p.md {
+		p.line("## %s", s)
+		p.line("")
+		return
+	}
+	p.line("%s", s)
+}
+
+func (p *printer) bullet(s string) {
+	if p.md {
+		p.line("- %s", mdEscape(s))
+		return
+	}
+	p.line("  - %s", s)
+}
+
+func mdEscape(s string) string {
+	r := strings.NewReplacer("|", `\|`, "*", `\*`, "_", `\_`, "<", "&lt;", ">", "&gt;", "`", "\\`")
+	return r.Replace(s)
+}
+
+// table renders rows with every tablewriter option set explicitly, so the
+// output does not depend on the library's defaults.
+func (p *printer) table(header []string, rows [][]string, align []tw.Align) error {
+	if p.err != nil {
+		return p.err
+	}
+	if p.md {
+		p.line("")
+	}
+	var rend tw.Renderer
+	if p.md {
+		rend = renderer.NewMarkdown()
+	} else {
+		rend = renderer.NewBlueprint(tw.Rendition{
+			Borders: tw.Border{Left: tw.On, Right: tw.On, Top: tw.On, Bottom: tw.On},
+			Symbols: tw.NewSymbols(tw.StyleASCII),
+			Settings: tw.Settings{
+				Separators: tw.Separators{BetweenRows: tw.Off, BetweenColumns: tw.On},
+				Lines:      tw.Lines{ShowHeaderLine: tw.On},
+			},
+		})
+	}
+	cell := func(a tw.Align) tw.CellConfig {
+		return tw.CellConfig{
+			Formatting: tw.CellFormatting{AutoWrap: tw.WrapNone, AutoFormat: tw.Off},
+			Alignment:  tw.CellAlignment{Global: a, PerColumn: align},
+			Padding:    tw.CellPadding{Global: tw.Padding{Left: " ", Right: " ", Overwrite: true}},
+		}
+	}
+	t := tablewriter.NewTable(p.w,
+		tablewriter.WithRenderer(rend),
+		tablewriter.WithConfig(tablewriter.Config{
+			Header:   cell(tw.AlignLeft),
+			Row:      cell(tw.AlignLeft),
+			Footer:   cell(tw.AlignLeft),
+			Behavior: tw.Behavior{TrimSpace: tw.Off, AutoHide: tw.Off},
+		}),
+	)
+	t.Header(toAny(header, p.md)...)
+	for _, r := range rows {
+		if err := t.Append(toAny(r, p.md)...); err != nil {
+			p.err = err
+			return err
+		}
+	}
+	if err := t.Render(); err != nil {
+		p.err = err
+		return err
+	}
+	if p.md {
+		p.line("")
+	}
+	return nil
+}
+
+func toAny(s []string, md bool) []any {
+	out := make([]any, len(s))
+	for i, v := range s {
+		if md {
+			v = mdEscape(v)
+		}
+		out[i] = v
+	}
+	return out
+}
