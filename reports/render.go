@@ -155,12 +155,12 @@ func writeHuman(w io.Writer, d *Document, opt Options, md bool) error {
 	p := &printer{w: w, md: md}
 	if md {
 		p.line("# lanecert audit")
-		p.line("")
+		p.gap()
 		p.line("**%s**", verdictLine(d))
 	} else {
 		p.line("%s", verdictLine(d))
 	}
-	p.line("")
+	p.gap()
 	p.kv("Network", netLine(d))
 	p.kv("Plan", d.Inputs.Plan)
 	p.kv("Plan cost", d.PlanCost)
@@ -190,18 +190,18 @@ func writeHuman(w io.Writer, d *Document, opt Options, md bool) error {
 	if d.Inputs.Tolerance != "" {
 		p.kv("Tolerance", fmt.Sprintf("%s: %d plan quantities rounded", d.Inputs.Tolerance, len(d.Rounded)))
 		for _, r := range d.Rounded {
-			p.line("  lane %s: %s read as %s", r.Lane, r.Given, r.Used)
+			p.bullet(fmt.Sprintf("lane %s: %s read as %s", r.Lane, r.Given, r.Used))
 		}
 	}
 	if len(d.Violations) > 0 {
-		p.line("")
+		p.gap()
 		p.head("Violations")
 		for _, v := range d.Violations {
 			p.bullet(violationText(v))
 		}
 	}
 	for i, c := range d.Cycles {
-		p.line("")
+		p.gap()
 		p.head(fmt.Sprintf("Reroute %d", i+1))
 		if c.Unbounded {
 			p.line("Moving units around this cycle saves %s per unit and no bound stops it: the cost falls without limit.", c.SavingPerUnit)
@@ -212,7 +212,7 @@ func writeHuman(w io.Writer, d *Document, opt Options, md bool) error {
 			return err
 		}
 	}
-	p.line("")
+	p.gap()
 	p.head("Lanes")
 	rows, shown := laneRows(d, opt.Rows)
 	if err := p.table([]string{"lane", "from", "to", "rate", "flow", "bounds", "state", "reduced cost", "slackness"}, rows,
@@ -223,7 +223,7 @@ func writeHuman(w io.Writer, d *Document, opt Options, md bool) error {
 		p.line("... %d more lane(s) not shown%s", rest, opt.MoreHint)
 	}
 	if opt.Nodes {
-		p.line("")
+		p.gap()
 		p.head("Nodes")
 		var nrows [][]string
 		for _, nd := range d.Nodes {
@@ -233,7 +233,7 @@ func writeHuman(w io.Writer, d *Document, opt Options, md bool) error {
 			return err
 		}
 	}
-	p.line("")
+	p.gap()
 	p.line("%s", d.Caution)
 	return p.err
 }
@@ -258,12 +258,33 @@ func violationText(v Violation) string {
 		return fmt.Sprintf("lane %s carries %s, above its capacity %s", v.Lane, v.Actual, max)
 	case "unbalanced":
 		if v.Max != nil && v.Min == *v.Max {
-			return fmt.Sprintf("node %s: outflow minus inflow is %s, its supply is %s", v.Node, v.Actual, v.Min)
+			switch {
+			case strings.HasPrefix(v.Min, "-"):
+				return fmt.Sprintf("node %s receives %s net (inflow minus outflow), its demand is %s", v.Node, negate(v.Actual), negate(v.Min))
+			case isZero(v.Min) && strings.HasPrefix(v.Actual, "-"):
+				return fmt.Sprintf("node %s takes in %s more than it sends on; a node without supply or demand must pass everything on", v.Node, negate(v.Actual))
+			case isZero(v.Min):
+				return fmt.Sprintf("node %s sends on %s more than it takes in; a node without supply or demand must pass everything on", v.Node, v.Actual)
+			}
+			return fmt.Sprintf("node %s ships %s net (outflow minus inflow), its supply is %s", v.Node, v.Actual, v.Min)
 		}
 		return fmt.Sprintf("node %s: outflow minus inflow is %s, want %s to %s", v.Node, v.Actual, v.Min, max)
 	}
 	return fmt.Sprintf("total demand %s exceeds total supply %s: no plan can meet it", v.Min, v.Actual)
 }
+
+// negate flips the sign of an exact decimal string.
+func negate(s string) string {
+	switch {
+	case strings.HasPrefix(s, "-"):
+		return s[1:]
+	case isZero(s):
+		return s
+	}
+	return "-" + s
+}
+
+func isZero(s string) bool { return strings.Trim(s, "0.") == "" }
 
 func stepRows(c CycleDoc) [][]string {
 	var rows [][]string
@@ -309,14 +330,23 @@ func laneRows(d *Document, limit int) ([][]string, int) {
 
 // printer writes lines and tables, keeping the first error.
 type printer struct {
-	w   io.Writer
-	md  bool
-	err error
+	w     io.Writer
+	md    bool
+	err   error
+	blank bool // the last line written was empty
 }
 
 func (p *printer) line(format string, args ...any) {
 	if p.err == nil {
 		_, p.err = fmt.Fprintf(p.w, format+"\n", args...)
+		p.blank = format == ""
+	}
+}
+
+// gap writes an empty line unless the last line was one.
+func (p *printer) gap() {
+	if !p.blank {
+		p.line("")
 	}
 }
 
@@ -331,7 +361,7 @@ func (p *printer) kv(k, v string) {
 func (p *printer) head(s string) {
 	if p.md {
 		p.line("## %s", s)
-		p.line("")
+		p.gap()
 		return
 	}
 	p.line("%s", s)
@@ -355,9 +385,6 @@ func mdEscape(s string) string {
 func (p *printer) table(header []string, rows [][]string, align []tw.Align) error {
 	if p.err != nil {
 		return p.err
-	}
-	if p.md {
-		p.line("")
 	}
 	var rend tw.Renderer
 	if p.md {
@@ -388,6 +415,9 @@ func (p *printer) table(header []string, rows [][]string, align []tw.Align) erro
 			Behavior: tw.Behavior{TrimSpace: tw.Off, AutoHide: tw.Off},
 		}),
 	)
+	if p.md {
+		p.gap()
+	}
 	t.Header(toAny(header, p.md)...)
 	for _, r := range rows {
 		if err := t.Append(toAny(r, p.md)...); err != nil {
@@ -399,8 +429,9 @@ func (p *printer) table(header []string, rows [][]string, align []tw.Align) erro
 		p.err = err
 		return err
 	}
+	p.blank = false
 	if p.md {
-		p.line("")
+		p.gap()
 	}
 	return nil
 }

@@ -1,0 +1,176 @@
+package main
+
+import (
+	"bytes"
+	"encoding/json"
+	"os"
+	"path/filepath"
+	"reflect"
+	"strings"
+	"testing"
+)
+
+func runCLI(t *testing.T, args ...string) (exitCode, string, string) {
+	t.Helper()
+	var out, errb bytes.Buffer
+	code := run(args, streams{in: strings.NewReader(""), out: &out, err: &errb})
+	return code, out.String(), errb.String()
+}
+
+// TestAuditFlags checks flag parsing apart from behaviour.
+func TestAuditFlags(t *testing.T) {
+	cases := []struct {
+		args []string
+		want auditOptions
+	}{
+		{[]string{"lanes.csv"}, auditOptions{rows: defaultRows, format: "table"}},
+		{[]string{"net.min", "plan.flow", "--format", "json", "-o", "x.json"}, auditOptions{rows: defaultRows, format: "json", output: "x.json"}},
+		{[]string{"--network", "l.csv", "--nodes", "n.csv", "--plan", "p.csv", "--col", "cost=rate_usd", "--tolerance", "1e-6", "--all-lanes", "--show-nodes"},
+			auditOptions{rows: defaultRows, format: "table", columns: []string{"cost=rate_usd"}, tolerance: "1e-6", allLanes: true, showNodes: true}},
+	}
+	wantFiles := [][3]string{{"lanes.csv", "", ""}, {"net.min", "", "plan.flow"}, {"l.csv", "n.csv", "p.csv"}}
+	for i, c := range cases {
+		var got *auditOptions
+		cmd := newAuditCmd(streams{out: &bytes.Buffer{}, err: &bytes.Buffer{}}, func(o *auditOptions) error { got = o; return nil })
+		cmd.SetArgs(c.args)
+		cmd.SetOut(&bytes.Buffer{})
+		if err := cmd.Execute(); err != nil {
+			t.Fatalf("%v: %v", c.args, err)
+		}
+		if f := [3]string{got.files.Network, got.files.Nodes, got.files.Plan}; f != wantFiles[i] {
+			t.Errorf("%v: files %v, want %v", c.args, f, wantFiles[i])
+		}
+		got.files = c.want.files
+		if !reflect.DeepEqual(*got, c.want) {
+			t.Errorf("%v: options %+v, want %+v", c.args, *got, c.want)
+		}
+	}
+}
+
+func TestAuditUsageErrors(t *testing.T) {
+	for _, args := range [][]string{
+		{"audit"},
+		{"audit", "a.csv", "--network", "b.csv"},
+		{"audit", "a.csv", "b.csv", "c.csv"},
+		{"audit", "../../testdata/reference/glpk_sample.min", "../../testdata/reference/glpk_sample.flow", "--format", "xml"},
+		{"audit", "../../testdata/reference/glpk_sample.min", "../../testdata/reference/glpk_sample.flow", "--col", "cost"},
+		{"audit", "../../testdata/reference/glpk_sample.min", "../../testdata/reference/glpk_sample.flow", "--tolerance", "-1"},
+		{"audit", "../../testdata/reference/glpk_sample.min"}, // no plan
+		{"audit", "missing.csv"},
+	} {
+		code, _, errText := runCLI(t, args...)
+		if code != exitBadInput || !strings.HasPrefix(errText, "lanecert: ") {
+			t.Errorf("%v: exit %d, stderr %q; want 4 and a message", args, code, errText)
+		}
+	}
+}
+
+func TestAuditPositionedError(t *testing.T) {
+	dir := t.TempDir()
+	lanes := filepath.Join(dir, "lanes.csv")
+	if err := os.WriteFile(lanes, []byte("from,to,cost,flow\na,b,12;5,1\n"), 0o644); err != nil {
+		t.Fatal(err)
+	}
+	code, _, errText := runCLI(t, "audit", lanes)
+	if code != exitBadInput || !strings.Contains(errText, "lanes.csv:2:5: cost \"12;5\"") {
+		t.Fatalf("exit %d, stderr %q", code, errText)
+	}
+}
+
+// TestExitCodes: one input per verdict.
+func TestExitCodes(t *testing.T) {
+	ref := "../../testdata/reference/"
+	cases := []struct {
+		args []string
+		code exitCode
+	}{
+		{[]string{"audit", ref + "glpk_sample.min", ref + "glpk_sample.flow"}, exitOptimal},
+		{[]string{"demo"}, exitNotOptimal},
+		{[]string{"audit", "../../testdata/audit/infeasible_lanes.csv", "--nodes", "../../testdata/audit/infeasible_nodes.csv", "--decimal-comma"}, exitPlanInfeasible},
+	}
+	for _, c := range cases {
+		code, out, errText := runCLI(t, c.args...)
+		if code != c.code {
+			t.Errorf("%v: exit %d, want %d; stderr %q", c.args, code, c.code, errText)
+		}
+		if !strings.Contains(out, "cost optimality only") {
+			t.Errorf("%v: report lacks the caution", c.args)
+		}
+	}
+}
+
+func TestDemoJSONVerdict(t *testing.T) {
+	code, out, _ := runCLI(t, "demo", "--format", "json")
+	var doc struct {
+		Verdict string `json:"verdict"`
+		Cycles  []any  `json:"cycles"`
+		Lanes   []any  `json:"lanes"`
+	}
+	if err := json.Unmarshal([]byte(out), &doc); err != nil {
+		t.Fatal(err)
+	}
+	if code != exitNotOptimal || doc.Verdict != "not-optimal" || len(doc.Cycles) == 0 || len(doc.Lanes) < 30 {
+		t.Fatalf("exit %d, verdict %q, %d cycles, %d lanes", code, doc.Verdict, len(doc.Cycles), len(doc.Lanes))
+	}
+	// Same input, same output.
+	_, again, _ := runCLI(t, "demo", "--format", "json")
+	if again != out {
+		t.Error("two runs of the demo differ")
+	}
+}
+
+func TestDemoWrite(t *testing.T) {
+	dir := filepath.Join(t.TempDir(), "mine")
+	if code, _, errText := runCLI(t, "demo", "--write", dir); code != exitOptimal {
+		t.Fatalf("exit %d: %s", code, errText)
+	}
+	code, _, _ := runCLI(t, "audit", filepath.Join(dir, "lanes.csv"), "--nodes", filepath.Join(dir, "nodes.csv"))
+	if code != exitNotOptimal {
+		t.Fatalf("written demo audits with exit %d, want 1", code)
+	}
+	// A second write must not overwrite.
+	if err := os.WriteFile(filepath.Join(dir, "lanes.csv"), []byte("mine"), 0o644); err != nil {
+		t.Fatal(err)
+	}
+	if code, _, _ := runCLI(t, "demo", "--write", dir); code != exitBadInput {
+		t.Fatalf("second write: exit %d, want 4", code)
+	}
+	if b, _ := os.ReadFile(filepath.Join(dir, "lanes.csv")); string(b) != "mine" {
+		t.Fatal("demo --write overwrote a file")
+	}
+}
+
+func TestOutputNeverOverInput(t *testing.T) {
+	dir := t.TempDir()
+	src, err := os.ReadFile("../../testdata/reference/glpk_sample.min")
+	if err != nil {
+		t.Fatal(err)
+	}
+	net := filepath.Join(dir, "net.min")
+	plan := filepath.Join(dir, "plan.flow")
+	os.WriteFile(net, src, 0o644)
+	p, _ := os.ReadFile("../../testdata/reference/glpk_sample.flow")
+	os.WriteFile(plan, p, 0o644)
+	if code, _, _ := runCLI(t, "audit", net, plan, "-o", plan); code != exitBadInput {
+		t.Fatalf("exit %d, want 4", code)
+	}
+	if b, _ := os.ReadFile(plan); !bytes.Equal(b, p) {
+		t.Fatal("plan file changed")
+	}
+	out := filepath.Join(dir, "audit.md")
+	if code, _, errText := runCLI(t, "audit", net, plan, "-o", out, "--format", "markdown"); code != exitOptimal {
+		t.Fatalf("exit %d: %s", code, errText)
+	}
+	if b, _ := os.ReadFile(out); !bytes.HasPrefix(b, []byte("# lanecert audit")) {
+		t.Fatalf("output %q", b)
+	}
+}
+
+func TestHelpNamesExitCodes(t *testing.T) {
+	_, out, _ := runCLI(t, "audit", "--help")
+	for _, want := range []string{"0  the plan is optimal", "4  bad input or usage", "--tolerance", "--col"} {
+		if !strings.Contains(out, want) {
+			t.Errorf("audit --help lacks %q", want)
+		}
+	}
+}

@@ -1,0 +1,218 @@
+package certcheck_test
+
+import (
+	"errors"
+	"math/big"
+	"math/rand/v2"
+	"testing"
+
+	"lanecert/flow"
+	"lanecert/internal/certcheck"
+	"lanecert/internal/oracle"
+	"lanecert/internal/randnet"
+)
+
+// resArc is an arc of the residual graph of a plan: moving one unit along
+// it changes lane (or, when hold, the hold of origin node tail) by
+// +1 (forward) or -1, at cost rate per unit.
+type resArc struct {
+	from, to int
+	lane     int // lane index, or -1 for a hold arc
+	forward  bool
+	rate     int64
+	room     int64 // units that can move; flow.NoLimit for no limit
+}
+
+// residualArcs lists the residual arcs of plan x. Node len(n.Nodes) is the
+// hold node H when total supply exceeds total demand.
+func residualArcs(n *flow.Network, x []int64) (arcs []resArc, nodes int) {
+	nodes = len(n.Nodes)
+	for a := range n.Tail {
+		t, h := int(n.Tail[a]), int(n.Head[a])
+		if n.Upper[a] == flow.NoLimit {
+			arcs = append(arcs, resArc{t, h, a, true, n.Rate[a], flow.NoLimit})
+		} else if x[a] < n.Upper[a] {
+			arcs = append(arcs, resArc{t, h, a, true, n.Rate[a], n.Upper[a] - x[a]})
+		}
+		if x[a] > n.Lower[a] {
+			arcs = append(arcs, resArc{h, t, a, false, -n.Rate[a], x[a] - n.Lower[a]})
+		}
+	}
+	s, d, _ := n.Totals()
+	if s > d {
+		hold := nodes
+		nodes++
+		out := make([]int64, len(n.Nodes))
+		for a := range n.Tail {
+			out[n.Tail[a]] += x[a]
+			out[n.Head[a]] -= x[a]
+		}
+		for v, sv := range n.Supply {
+			if sv <= 0 {
+				continue
+			}
+			h := sv - out[v]
+			if h < sv {
+				arcs = append(arcs, resArc{v, hold, -1, true, 0, sv - h})
+			}
+			if h > 0 {
+				arcs = append(arcs, resArc{hold, v, -1, false, 0, h})
+			}
+		}
+	}
+	return arcs, nodes
+}
+
+// bellmanFord returns shortest distances from a virtual root joined to
+// every node at cost 0, or a negative cycle (as residual arcs in walk
+// order) when one exists. Test-local, O(|V|·|E|).
+func bellmanFord(arcs []resArc, nodes int) (dist []int64, cycle []resArc) {
+	dist = make([]int64, nodes)
+	pred := make([]int, nodes)
+	for v := range pred {
+		pred[v] = -1
+	}
+	last := -1
+	for range nodes + 1 {
+		last = -1
+		for i, e := range arcs {
+			if d := dist[e.from] + e.rate; d < dist[e.to] {
+				dist[e.to], pred[e.to], last = d, i, e.to
+			}
+		}
+		if last < 0 {
+			return dist, nil
+		}
+	}
+	v := last
+	for range nodes {
+		v = arcs[pred[v]].from
+	}
+	for u := v; ; {
+		e := arcs[pred[u]]
+		cycle = append([]resArc{e}, cycle...)
+		u = e.from
+		if u == v {
+			break
+		}
+	}
+	return nil, cycle
+}
+
+func planCost(n *flow.Network, x []int64) *big.Int {
+	c := new(big.Int)
+	for a := range x {
+		c.Add(c, new(big.Int).Mul(big.NewInt(n.Rate[a]), big.NewInt(x[a])))
+	}
+	return c
+}
+
+func wide(t *testing.T, b *big.Int) flow.Wide {
+	t.Helper()
+	if !b.IsInt64() {
+		t.Fatalf("cost %s does not fit int64", b)
+	}
+	return flow.WideFrom(b.Int64())
+}
+
+// TestCertificatesRandom builds certificates for random plans with a
+// test-local Bellman-Ford on the residual graph and checks them with the
+// package and against the LP oracle: with no negative residual cycle the
+// distances are potentials that must pass Optimal, and the plan's cost must
+// equal the oracle's optimum; a negative cycle avoiding the hold node must
+// pass Cycle, and the oracle's optimum must lie below the plan's cost.
+// Random perturbations of a passing certificate must fail.
+func TestCertificatesRandom(t *testing.T) {
+	rng := rand.New(rand.NewPCG(7, 1))
+	var optimal, cycles, holdCycles int
+	for i := range 300 {
+		o := randnet.RandomOptions(rng)
+		n := randnet.Network(rng, o)
+		x, ok := randnet.FeasiblePlan(rng, n)
+		if !ok {
+			continue
+		}
+		if err := certcheck.Feasible(n, x); err != nil {
+			t.Fatalf("case %d: FeasiblePlan gave an infeasible plan: %v", i, err)
+		}
+		r, err := oracle.MinCost(n)
+		if err != nil {
+			t.Fatalf("case %d: %v", i, err)
+		}
+		cost := planCost(n, x)
+		places := n.QtyPlaces + n.RatePlaces
+		arcs, nodes := residualArcs(n, x)
+		dist, cyc := bellmanFord(arcs, nodes)
+		if cyc == nil {
+			optimal++
+			if r.Status != oracle.Optimal || !oracle.SameCost(wide(t, cost), places, r) {
+				t.Fatalf("case %d: no improving cycle, plan cost %s, oracle %v %v", i, cost, r.Status, r.CostScaled)
+			}
+			p := dist[:len(n.Nodes)]
+			if nodes > len(n.Nodes) { // shift so that p(H) = 0
+				p = make([]int64, len(n.Nodes))
+				for v := range p {
+					p[v] = dist[v] - dist[len(n.Nodes)]
+				}
+			}
+			if err := certcheck.Optimal(n, x, p, cost, cost); err != nil {
+				t.Fatalf("case %d: %v", i, err)
+			}
+			wrong := new(big.Int).Add(cost, big.NewInt(1))
+			if err := certcheck.Optimal(n, x, p, wrong, nil); !errors.Is(err, certcheck.ErrClaimedCost) {
+				t.Fatalf("case %d: wrong claimed cost: got %v", i, err)
+			}
+			if err := certcheck.Optimal(n, x, p, nil, wrong); !errors.Is(err, certcheck.ErrClaimedDual) {
+				t.Fatalf("case %d: wrong claimed dual: got %v", i, err)
+			}
+			continue
+		}
+		if r.Status == oracle.Optimal && !(r.CostScaled < bigFloat(cost)) {
+			t.Fatalf("case %d: improving cycle but oracle optimum %v >= plan cost %s", i, r.CostScaled, cost)
+		}
+		steps := make([]certcheck.Step, 0, len(cyc))
+		theta := flow.NoLimit
+		var perUnit int64
+		viaHold := false
+		for _, e := range cyc {
+			if e.lane < 0 {
+				viaHold = true
+				break
+			}
+			steps = append(steps, certcheck.Step{Lane: flow.LaneID(e.lane), Forward: e.forward})
+			theta = min(theta, e.room)
+			perUnit += e.rate
+		}
+		if viaHold {
+			holdCycles++
+			continue
+		}
+		if theta == flow.NoLimit {
+			if r.Status != oracle.Unbounded {
+				t.Fatalf("case %d: negative cycle without capacity, oracle says %v", i, r.Status)
+			}
+			continue
+		}
+		cycles++
+		saving := -perUnit
+		total := new(big.Int).Mul(big.NewInt(saving), big.NewInt(theta))
+		if err := certcheck.Cycle(n, x, steps, theta, saving, total); err != nil {
+			t.Fatalf("case %d: %v", i, err)
+		}
+		if err := certcheck.Cycle(n, x, steps, theta+1, saving, nil); !errors.Is(err, certcheck.ErrThetaTooBig) {
+			t.Fatalf("case %d: theta+1: got %v", i, err)
+		}
+		if err := certcheck.Cycle(n, x, steps, theta, saving+1, nil); !errors.Is(err, certcheck.ErrSaving) {
+			t.Fatalf("case %d: saving+1: got %v", i, err)
+		}
+	}
+	if optimal == 0 || cycles == 0 {
+		t.Errorf("weak sample: %d optimal plans, %d cycles", optimal, cycles)
+	}
+	t.Logf("%d optimal plans, %d improving cycles, %d through the hold node", optimal, cycles, holdCycles)
+}
+
+func bigFloat(b *big.Int) float64 {
+	f, _ := new(big.Float).SetInt(b).Float64()
+	return f
+}
