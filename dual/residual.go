@@ -26,6 +26,8 @@ type graph struct {
 	parentArc []int32 // per node: tree arc to the parent, -1 at a root
 	depth     []int32
 	pieces    int
+	// freeCycles counts free arcs outside the forest (each closes a cycle).
+	freeCycles int
 }
 
 func newGraph(n *flow.Network, x []int64, f *flow.Feasibility) *graph {
@@ -179,6 +181,7 @@ func (g *graph) forest() ([]candidate, error) {
 				if u != t || int32(e) == g.parentArc[u] || int32(e) == g.parentArc[w] {
 					continue // tree arcs; other arcs once, from their tail
 				}
+				g.freeCycles++
 				r, err := g.reduced(e)
 				if err != nil {
 					return nil, err
@@ -390,7 +393,7 @@ func (g *graph) solve(a *Audit) error {
 		return g.dual(a, p)
 	}
 	a.Verdict = NotOptimal
-	return g.cycles(a, bad, bfCycle)
+	return g.cycles(a, p, bad, bfCycle)
 }
 
 // isolatedHold reports whether the hold node forms a piece of its own.
@@ -530,7 +533,7 @@ func (g *graph) dual(a *Audit, p []int64) error {
 }
 
 // cycles turns the candidates into measured cycles and keeps the best.
-func (g *graph) cycles(a *Audit, bad []candidate, bf []Step) error {
+func (g *graph) cycles(a *Audit, p []int64, bad []candidate, bf []Step) error {
 	sort.SliceStable(bad, func(i, j int) bool {
 		if bad[i].cost != bad[j].cost {
 			return bad[i].cost < bad[j].cost
@@ -549,7 +552,7 @@ func (g *graph) cycles(a *Audit, bad []candidate, bf []Step) error {
 	}
 	var out []Cycle
 	for _, w := range walks {
-		c, err := g.measure(w)
+		c, err := g.measure(g.rotate(w, p))
 		if err != nil {
 			return err
 		}
@@ -588,6 +591,20 @@ func (g *graph) cycles(a *Audit, bad []candidate, bf []Step) error {
 		}
 	}
 	return nil
+}
+
+// rotate starts a cycle at its node of lowest potential (then lowest
+// number), so reroutes read from the supply side outward.
+func (g *graph) rotate(w []Step, p []int64) []Step {
+	best := 0
+	for i, s := range w {
+		v, _ := g.ends(s)
+		b, _ := g.ends(w[best])
+		if p[v] < p[b] || (p[v] == p[b] && v < b) {
+			best = i
+		}
+	}
+	return append(append([]Step(nil), w[best:]...), w[:best]...)
 }
 
 // cycleKey identifies a cycle regardless of where it starts.

@@ -106,11 +106,11 @@ func ReadCSVNetwork(lanes io.Reader, lanesFile string, nodes io.Reader, nodesFil
 		ok = ok && ok3 && ok4 && ok5
 		if ok4 && lo.Mant < 0 {
 			r.fail("min", fmt.Errorf("minimum %w", ErrNegative))
-			ok = false
+			ok, ok4 = false, false // no bounds error besides
 		}
 		if ok5 && hi.Mant != NoLimit && hi.Mant < 0 {
 			r.fail("max", fmt.Errorf("capacity %w", ErrNegative))
-			ok = false
+			ok, ok5 = false, false
 		}
 		if ok4 && ok5 && hi.Mant != NoLimit && lo.Cmp(hi) > 0 {
 			r.fail("min", fmt.Errorf("%w: min %s > max %s", ErrBounds, lo, hi))
@@ -189,21 +189,22 @@ func (n *Network) finishScales(file string, supply, lower, upper, rate *rawQty) 
 		return &ParseError{File: file, Err: fmt.Errorf("quantities use %d and rates %d decimal places, at most %d are supported: %w", qp, rp, MaxPlaces, ErrOverflow)}
 	}
 	var err error
-	node := func(i int) string { return fmt.Sprintf("flow: %s: supply of node %q", file, n.Nodes[i]) }
-	lane := func(what string) func(int) string {
-		return func(i int) string { return fmt.Sprintf("flow: %s: %s of lane %s", file, what, n.LaneName(LaneID(i))) }
-	}
+	node := func(i int) string { return fmt.Sprintf("node %q", n.Nodes[i]) }
+	lane := func(i int) string { return "lane " + n.LaneName(LaneID(i)) }
+	// A value that overflows on the common scale is an input error of the
+	// file as a whole (its row is no longer known).
+	fileErr := func(field string, err error) error { return &ParseError{File: file, Field: field, Err: err} }
 	if n.Supply, err = supply.scale(qp, node); err != nil {
-		return err
+		return fileErr("supply", err)
 	}
-	if n.Lower, err = lower.scale(qp, lane("min")); err != nil {
-		return err
+	if n.Lower, err = lower.scale(qp, lane); err != nil {
+		return fileErr("min", err)
 	}
-	if n.Upper, err = upper.scale(qp, lane("max")); err != nil {
-		return err
+	if n.Upper, err = upper.scale(qp, lane); err != nil {
+		return fileErr("max", err)
 	}
-	if n.Rate, err = rate.scale(rp, lane("cost")); err != nil {
-		return err
+	if n.Rate, err = rate.scale(rp, lane); err != nil {
+		return fileErr("cost", err)
 	}
 	n.QtyPlaces, n.RatePlaces = qp, rp
 	return nil

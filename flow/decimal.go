@@ -31,10 +31,11 @@ type Decimal struct {
 }
 
 // ParseDecimal parses a plain decimal: an optional sign, digits, an optional
-// point and digits, and an optional exponent (e or E). NaN, Inf, empty text,
-// thousands separators and hexadecimal are rejected. The result is exact;
-// a value that needs more than 18 significant digits or more than MaxPlaces
-// places after scaling gives ErrOverflow. Trailing zeros after the point are
+// point and digits, and an optional exponent (e or E, at most ±40). NaN, Inf,
+// empty text, spaces, thousands separators and hexadecimal are rejected. The
+// result is exact; a value whose mantissa does not fit below MaxInt64 (more
+// than 18 significant digits, some of 19; MaxInt64 is NoLimit) or that needs
+// more than 18 places gives ErrOverflow. Trailing zeros after the point are
 // dropped, so "1.50" has Places 1.
 func ParseDecimal(s string) (Decimal, error) {
 	return parseDecimal(s, '.')
@@ -71,7 +72,7 @@ func parseDecimal(s string, point byte) (Decimal, error) {
 		if mant == 0 && c == '0' && !seenPoint {
 			continue // leading zero
 		}
-		if mant > (math.MaxInt64-9)/10 {
+		if mant > (math.MaxInt64-1-uint64(c-'0'))/10 { // keep mant < MaxInt64 (NoLimit)
 			if seenPoint && c == '0' {
 				continue // a zero past 18 digits; a later non-zero digit overflows
 			}

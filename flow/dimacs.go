@@ -4,6 +4,7 @@ import (
 	"bytes"
 	"fmt"
 	"io"
+	"math"
 	"strconv"
 )
 
@@ -71,11 +72,14 @@ func ReadDIMACS(r io.Reader, file string) (*Network, error) {
 			}
 			supply.mant = make([]int64, nodes)
 			supply.places = make([]int8, nodes)
-			n.Tail = make([]NodeID, 0, arcs)
-			n.Head = make([]NodeID, 0, arcs)
-			lower.mant, lower.places = make([]int64, 0, arcs), make([]int8, 0, arcs)
-			upper.mant, upper.places = make([]int64, 0, arcs), make([]int8, 0, arcs)
-			rate.mant, rate.places = make([]int64, 0, arcs), make([]int8, 0, arcs)
+			// An arc line takes at least 12 bytes ("a 1 1 0 0 0\n"): do not
+			// trust the announced count beyond what the file can hold.
+			c := min(arcs, len(data)/12+1)
+			n.Tail = make([]NodeID, 0, c)
+			n.Head = make([]NodeID, 0, c)
+			lower.mant, lower.places = make([]int64, 0, c), make([]int8, 0, c)
+			upper.mant, upper.places = make([]int64, 0, c), make([]int8, 0, c)
+			rate.mant, rate.places = make([]int64, 0, c), make([]int8, 0, c)
 		case "n":
 			if nodes < 0 {
 				bad(0, "n", fmt.Errorf("%w: node line before the problem line", ErrSyntax))
@@ -99,7 +103,9 @@ func ReadDIMACS(r io.Reader, file string) (*Network, error) {
 			a, err1 := ScaleUp(supply.mant[v], int(p-supply.places[v]))
 			b, err2 := ScaleUp(d.Mant, int(p-d.Places))
 			s, err3 := AddChecked(a, b)
-			if err1 != nil || err2 != nil || err3 != nil {
+			if err1 != nil || err2 != nil || err3 != nil || s == math.MinInt64 {
+				// MinInt64 has no negation: supplies stay in [-MaxInt64, MaxInt64]
+				// like every parsed value.
 				bad(2, "SUPPLY", fmt.Errorf("sum of the node's supplies %w", ErrOverflow))
 				return
 			}

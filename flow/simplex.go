@@ -3,6 +3,7 @@ package flow
 import (
 	"fmt"
 	"math"
+	"math/bits"
 )
 
 // Status is the outcome of Solve.
@@ -106,6 +107,10 @@ const (
 // of a residual.
 const inf = math.MaxInt64
 
+// driftLimit bounds the drift of p(R) in unchecked arithmetic: with
+// (2|V|+3)·maxRate <= MaxInt64, potentials stay below 3/4 of MaxInt64.
+const driftLimit = math.MaxInt64 / 4
+
 // progressEvery is the number of pivots between Progress calls (a power of
 // two).
 const progressEvery = 1 << 14
@@ -155,8 +160,11 @@ type simplex struct {
 	// are fixed (phase two).
 	artFixed bool
 
+	treeSet  bool
 	pivots   int64
 	progress func(int64)
+	// drift bounds |p(R)| after shifts of the rest of the tree.
+	drift int64
 
 	cycle []CycleStep
 }
@@ -216,12 +224,6 @@ type simplex struct {
 // The error is non-nil only when n is invalid (n.Validate) or a value
 // overflows; infeasible and unbounded problems are Status values.
 func Solve(n *Network, opt SolveOptions) (*Solution, error) {
-	return solve(n, opt, false)
-}
-
-// solve is Solve; twoPhase forces the cost-1 artificial first phase
-// (tests reach it with large rates).
-func solve(n *Network, opt SolveOptions, twoPhase bool) (*Solution, error) {
 	if err := n.Validate(); err != nil {
 		return nil, err
 	}
@@ -254,9 +256,6 @@ func solve(n *Network, opt SolveOptions, twoPhase bool) (*Solution, error) {
 	if v, err := MulChecked(2*nn+3, maxRate); err != nil || v < 0 {
 		s.checked = true
 	}
-	if twoPhase {
-		okM = false
-	}
 
 	if supply < demand {
 		// Infeasible in any case; find the shortfall.
@@ -267,16 +266,54 @@ func solve(n *Network, opt SolveOptions, twoPhase bool) (*Solution, error) {
 	}
 
 	warm := false
+	var superbasic []int32
 	if opt.Start != nil {
-		w, err := s.warmStart(opt.Start)
-		if err != nil {
-			return nil, err
-		}
-		warm = w
+		warm, superbasic = s.warmStart(opt.Start)
 	}
 	sol.WarmStarted = warm
+	for round := 0; warm && (round == 0 || len(superbasic) > 0); round++ {
+		if round > 0 {
+			// The pivots below left a tree whose duals may be far off
+			// (ties let perturbed lanes stay in it); rebuild from the
+			// flows, now basic, once.
+			if round > 1 {
+				break
+			}
+			superbasic = s.buildWarmTree()
+		}
+		if err := s.computePotentialsChecked(); err != nil {
+			return nil, err
+		}
+		// Lanes strictly between their bounds outside the tree: pivot
+		// each in, towards lower cost, until it or a tree arc reaches a
+		// bound.
+		for _, a := range superbasic {
+			r, err := s.reducedChecked(a)
+			if err != nil {
+				return nil, err
+			}
+			// Towards lower cost; on a tie, towards less flow (a finite
+			// limit, so a zero-cost cycle is never called unbounded).
+			dir := stateUpper
+			if r < 0 {
+				dir = stateLower
+			}
+			unb, err := s.pivot(a, dir, r)
+			if err != nil {
+				return nil, err
+			}
+			if unb {
+				sol.Status = Unbounded
+				sol.Cycle = s.cycle
+				sol.Pivots = s.pivots
+				return sol, nil
+			}
+		}
+	}
 	if !warm {
-		s.coldStart()
+		if err := s.coldStart(); err != nil {
+			return nil, err
+		}
 		if okM {
 			s.setCosts(true, bigM)
 		} else {
@@ -309,7 +346,13 @@ func solve(n *Network, opt SolveOptions, twoPhase bool) (*Solution, error) {
 	if err := s.computePotentialsChecked(); err != nil {
 		return nil, err
 	}
-	unb, err := s.run()
+	unb, err := false, error(nil)
+	if warm {
+		unb, err = s.warmPass()
+	}
+	if !unb && err == nil {
+		unb, err = s.run()
+	}
 	if err != nil {
 		return nil, err
 	}
@@ -330,12 +373,6 @@ func newSimplex(n *Network, hold bool, excess int64) (*simplex, error) {
 	nNodes := nv
 	if hold {
 		s.hold = int32(nv)
-		for _, b := range n.Supply {
-			if b > 0 {
-				s.holdFrom = append(s.holdFrom, NodeID(len(s.holdFrom)))
-			}
-		}
-		s.holdFrom = s.holdFrom[:0]
 		for v, b := range n.Supply {
 			if b > 0 {
 				s.holdFrom = append(s.holdFrom, NodeID(v))
@@ -435,9 +472,19 @@ func (s *simplex) shiftedSupply() ([]int64, error) {
 // coldStart sets the artificial tree: every node hangs from R by its
 // artificial arc, directed to R when b' >= 0 and from R otherwise, carrying
 // |b'|. It is strongly feasible.
-func (s *simplex) coldStart() {
-	b, _ := s.shiftedSupply() // checked by the caller's earlier pass
+func (s *simplex) coldStart() error {
+	b, err := s.shiftedSupply()
+	if err != nil {
+		return err
+	}
+	var total int64
+	for _, x := range b {
+		if total, err = AddChecked(total, abs64(x)); err != nil || x == math.MinInt64 {
+			return fmt.Errorf("flow: solve: total supply net of lane minimums: %w", ErrOverflow)
+		}
+	}
 	s.initArtTree(b)
+	return nil
 }
 
 func (s *simplex) initArtTree(b []int64) {
@@ -461,6 +508,7 @@ func (s *simplex) initArtTree(b []int64) {
 		s.thread[v] = int32(v + 1)
 		s.rthread[v] = int32(v - 1)
 	}
+	s.treeSet = true
 	s.size[r] = int32(s.nNodes + 1)
 	if s.nNodes == 0 {
 		s.thread[r], s.rthread[r], s.last[r] = r, r, r
@@ -489,11 +537,10 @@ func (s *simplex) setCosts(real bool, artCost int64) {
 // phaseOne minimises the total artificial flow from the current tree (lane
 // and hold costs 0, artificial cost 1). It cannot be unbounded.
 func (s *simplex) phaseOne() error {
-	if s.pred[0] == 0 && s.nNodes > 0 && s.parent[0] == 0 {
-		// never: the tree is always set before (kept for clarity)
-	}
-	if s.thread[s.root] == 0 && s.size[s.root] == 0 {
-		s.coldStart()
+	if !s.treeSet {
+		if err := s.coldStart(); err != nil {
+			return err
+		}
 	}
 	s.setCosts(false, 1)
 	s.artFixed = false
@@ -541,6 +588,7 @@ func (s *simplex) enterPhaseTwo() {
 func (s *simplex) computePotentials() {
 	r := s.root
 	s.pot[r] = 0
+	s.drift = 0
 	for v := s.thread[r]; v != r; v = s.thread[v] {
 		a := s.pred[v]
 		if s.up[v] {
@@ -558,6 +606,7 @@ func (s *simplex) computePotentialsChecked() error {
 	}
 	r := s.root
 	s.pot[r] = 0
+	s.drift = 0
 	var err error
 	for v := s.thread[r]; v != r; v = s.thread[v] {
 		a := s.pred[v]
@@ -596,6 +645,39 @@ func (s *simplex) run() (bool, error) {
 			return unb, err
 		}
 	}
+}
+
+// warmPass pivots, in index order, on the arcs eligible in the first tree
+// of a warm start, each if still eligible when its turn comes; block search
+// then finishes. Near an optimum the eligible arcs are few and block search
+// would scan most arcs to find each.
+func (s *simplex) warmPass() (bool, error) {
+	var list []int32
+	for e := range s.state {
+		if s.state[e] == stateTree {
+			continue
+		}
+		r, err := s.reducedChecked(int32(e))
+		if err != nil {
+			return false, err
+		}
+		if int64(s.state[e])*r < 0 {
+			list = append(list, int32(e))
+		}
+	}
+	for _, e := range list {
+		r, err := s.reducedChecked(e)
+		if err != nil {
+			return false, err
+		}
+		if int64(s.state[e])*r >= 0 {
+			continue
+		}
+		if unb, err := s.pivot(e, s.state[e], r); err != nil || unb {
+			return unb, err
+		}
+	}
+	return false, nil
 }
 
 // findEntering returns an eligible arc and its reduced cost by block
@@ -971,12 +1053,20 @@ func (s *simplex) updateTree(in, uIn, vIn, uOut, apex int32, sigma int64) error 
 				pot[u] = p
 				u = thr[u]
 			}
-		} else {
+		} else if 2*sN <= sz[s.root] || s.drift > driftLimit {
 			u := uIn
 			for i := int32(0); i < sN; i++ {
 				pot[u] += sigma
 				u = thr[u]
 			}
+		} else {
+			// Shift the smaller rest of the tree the other way: the same
+			// reduced costs; the root's potential drifts by -sigma
+			// (bounded by driftLimit, then the subtree is shifted).
+			for u := thr[endS]; u != uIn; u = thr[u] {
+				pot[u] -= sigma
+			}
+			s.drift += abs64(sigma)
 		}
 	}
 	return nil
@@ -1006,12 +1096,14 @@ func (s *simplex) optimal(sol *Solution) (*Solution, error) {
 	sol.Flow = make([]int64, m)
 	var err error
 	for a := 0; a < m; a++ {
-		if sol.Flow[a], err = AddChecked(s.flow[a], n.Lower[a]); err != nil {
+		x := s.flow[a] + n.Lower[a] // <= Upper when Upper is finite
+		if s.cap[a] == inf && x < s.flow[a] {
 			return nil, s.flowOverflow(int32(a))
 		}
-		if sol.Cost, err = sol.Cost.AddProduct(n.Rate[a], sol.Flow[a]); err != nil {
-			return nil, fmt.Errorf("flow: solve: total cost: %w", err)
-		}
+		sol.Flow[a] = x
+	}
+	if sol.Cost, err = totalCost(n.Rate, sol.Flow); err != nil {
+		return nil, err
 	}
 	sol.Held = make([]int64, nv)
 	for i, v := range s.holdFrom {
@@ -1057,8 +1149,21 @@ func (s *simplex) normalPotentials() ([]int64, error) {
 			comp[ra] = rb
 		}
 	}
+	// Nodes below the same child of R are connected by tree arcs; only
+	// lanes between such subtrees need the union-find.
+	label := make([]int32, s.nNodes)
+	for v := s.thread[s.root]; v != s.root; v = s.thread[v] {
+		if p := s.parent[v]; p == s.root {
+			label[v] = v
+		} else {
+			label[v] = label[p]
+			union(v, p)
+		}
+	}
 	for a := 0; a < s.m; a++ {
-		union(n.Tail[a], n.Head[a])
+		if t, h := n.Tail[a], n.Head[a]; label[t] != label[h] {
+			union(t, h)
+		}
 	}
 	for _, v := range s.holdFrom {
 		union(v, s.hold)
@@ -1093,4 +1198,437 @@ func (s *simplex) normalPotentials() ([]int64, error) {
 		}
 	}
 	return out, nil
+}
+
+// warmStart builds a strongly feasible tree from plan x when x is feasible:
+// lanes (and hold arcs) strictly between their bounds, taken in index order
+// while they close no cycle, form a forest; each forest component hangs
+// from R by the artificial arc of its smallest node (zero flow, directed to
+// R). Artificial arcs then keep zero flow (phase two). It returns false
+// when x is not feasible (nothing is changed then), and the free arcs left
+// out of the forest, which the caller pivots in.
+func (s *simplex) warmStart(x []int64) (bool, []int32) {
+	n := s.net
+	m, nv := s.m, len(n.Nodes)
+	if len(x) != m {
+		return false, nil
+	}
+	netout := make([]int64, nv)
+	var err error
+	for a := 0; a < m; a++ {
+		if x[a] < n.Lower[a] || x[a] > n.Upper[a] {
+			return false, nil
+		}
+		t, h := n.Tail[a], n.Head[a]
+		if netout[t], err = AddChecked(netout[t], x[a]); err != nil {
+			return false, nil
+		}
+		if netout[h], err = SubChecked(netout[h], x[a]); err != nil {
+			return false, nil
+		}
+	}
+	for v := 0; v < nv; v++ {
+		b := n.Supply[v]
+		if s.hold >= 0 && b > 0 {
+			if netout[v] < 0 || netout[v] > b {
+				return false, nil
+			}
+		} else if netout[v] != b {
+			return false, nil
+		}
+	}
+	// Flows and states.
+	for a := 0; a < m; a++ {
+		s.flow[a] = x[a] - n.Lower[a]
+	}
+	for i, v := range s.holdFrom {
+		s.flow[s.holdStart+i] = n.Supply[v] - netout[v]
+	}
+	return true, s.buildWarmTree()
+}
+
+// buildWarmTree builds a strongly feasible tree for the current flows,
+// in which the artificial arcs carry nothing: arcs strictly between their
+// bounds, in index order while they close no cycle, form a forest that
+// completeForest completes. It returns the free arcs left out of the
+// forest (not yet at a bound and not in the tree).
+func (s *simplex) buildWarmTree() []int32 {
+	n := s.net
+	uf := make([]int32, s.nNodes)
+	for v := range uf {
+		uf[v] = int32(v)
+	}
+	find := func(v int32) int32 {
+		for uf[v] != v {
+			uf[v] = uf[uf[v]]
+			v = uf[v]
+		}
+		return v
+	}
+	var superbasic []int32
+	forest := make([]int32, 0, s.nNodes)
+	for a := 0; a < s.artStart; a++ {
+		f, c := s.flow[a], s.cap[a]
+		switch {
+		case c == 0:
+			s.state[a] = stateTree // fixed
+		case f == 0:
+			s.state[a] = stateLower
+		case f == c:
+			s.state[a] = stateUpper
+		default:
+			s.state[a] = stateTree
+			ra, rb := find(s.src[a]), find(s.tgt[a])
+			if ra == rb {
+				superbasic = append(superbasic, int32(a))
+				continue
+			}
+			if ra < rb {
+				uf[rb] = ra
+			} else {
+				uf[ra] = rb
+			}
+			forest = append(forest, int32(a))
+		}
+	}
+	tree := s.completeForest(forest, find)
+	for _, a := range tree {
+		s.state[a] = stateTree
+	}
+	// Tree adjacency (forest, attaching arcs and the artificial arcs of
+	// the component roots) and a depth-first preorder from R.
+	r := s.root
+	nt := s.nNodes + 1
+	start := make([]int32, nt+1)
+	for _, a := range tree {
+		start[s.src[a]+1]++
+		start[s.tgt[a]+1]++
+	}
+	for v := 0; v < nt; v++ {
+		start[v+1] += start[v]
+	}
+	adj := make([]int32, start[nt])
+	fill := append([]int32(nil), start[:nt]...)
+	for _, a := range tree {
+		adj[fill[s.src[a]]] = a
+		fill[s.src[a]]++
+		adj[fill[s.tgt[a]]] = a
+		fill[s.tgt[a]]++
+	}
+	order := make([]int32, 0, nt)
+	seen := make([]bool, nt)
+	seen[r] = true
+	stack := append(make([]int32, 0, 64), r)
+	for len(stack) > 0 {
+		v := stack[len(stack)-1]
+		stack = stack[:len(stack)-1]
+		order = append(order, v)
+		// Push children in reverse so they are visited in arc order.
+		for i := start[v+1] - 1; i >= start[v]; i-- {
+			e := adj[i]
+			w := s.src[e]
+			if w == v {
+				w = s.tgt[e]
+			}
+			if seen[w] {
+				continue
+			}
+			seen[w] = true
+			s.parent[w], s.pred[w], s.up[w] = v, e, s.src[e] == w
+			stack = append(stack, w)
+		}
+	}
+	for i, v := range order {
+		s.size[v] = 1
+		s.thread[v] = order[(i+1)%len(order)]
+		s.rthread[v] = order[(i+len(order)-1)%len(order)]
+	}
+	for i := len(order) - 1; i > 0; i-- {
+		v := order[i]
+		s.size[s.parent[v]] += s.size[v]
+	}
+	for i, v := range order {
+		s.last[v] = order[i+int(s.size[v])-1]
+	}
+	s.parent[r], s.pred[r] = -1, -1
+	s.treeSet = true
+	s.artFixed = true
+	copy(s.cost, n.Rate)
+	for a := s.artStart; a < len(s.cost); a++ {
+		s.cost[a] = 0
+	}
+	return superbasic
+}
+
+// completeForest returns the arcs of a strongly feasible spanning tree
+// containing forest (free arcs; find gives their components). Components
+// are taken in order of their smallest node; one not yet attached hangs
+// from R by the artificial arc of that node (zero flow, directed to R).
+// Then, breadth first, every component next to the attached part joins it
+// through an arc the tree may hold at a bound (zero flow and directed into
+// the attached part, or at capacity and directed out of it); among those
+// it takes the one that gives the component the highest potentials, the
+// least for which all of them keep the right sign, so the first tree is
+// close to dual feasible when x came from an optimal plan. Time
+// O(|V|+|E|).
+func (s *simplex) completeForest(forest []int32, find func(int32) int32) []int32 {
+	nv := s.nNodes
+	na := s.artStart
+	comp := make([]int32, nv)
+	for v := range comp {
+		comp[v] = find(int32(v))
+	}
+	// Members of each component, grouped by representative.
+	cstart := make([]int32, nv+1)
+	for v := 0; v < nv; v++ {
+		cstart[comp[v]+1]++
+	}
+	for v := 0; v < nv; v++ {
+		cstart[v+1] += cstart[v]
+	}
+	members := make([]int32, nv)
+	cfill := append([]int32(nil), cstart[:nv]...)
+	for v := 0; v < nv; v++ {
+		c := comp[v]
+		members[cfill[c]] = int32(v)
+		cfill[c]++
+	}
+	// Potentials within components (rho), from the forest; all zero (no
+	// guidance, no overflow risk) when potentials need checked arithmetic.
+	rho := make([]int64, nv)
+	fstart := make([]int32, nv+1)
+	for _, a := range forest {
+		fstart[s.src[a]+1]++
+		fstart[s.tgt[a]+1]++
+	}
+	for v := 0; v < nv; v++ {
+		fstart[v+1] += fstart[v]
+	}
+	fadj := make([]int32, fstart[nv])
+	ffill := append([]int32(nil), fstart[:nv]...)
+	for _, a := range forest {
+		fadj[ffill[s.src[a]]] = a
+		ffill[s.src[a]]++
+		fadj[ffill[s.tgt[a]]] = a
+		ffill[s.tgt[a]]++
+	}
+	done := make([]bool, nv)
+	stack := make([]int32, 0, 64)
+	for v0 := 0; v0 < nv; v0++ {
+		if done[v0] {
+			continue
+		}
+		done[v0] = true
+		stack = append(stack[:0], int32(v0))
+		for len(stack) > 0 {
+			v := stack[len(stack)-1]
+			stack = stack[:len(stack)-1]
+			for _, a := range fadj[fstart[v]:fstart[v+1]] {
+				w := s.src[a]
+				if w == v {
+					w = s.tgt[a]
+				}
+				if done[w] {
+					continue
+				}
+				done[w] = true
+				// r(a) = cost + p(src) - p(tgt) = 0
+				if s.checked {
+				} else if s.src[a] == w {
+					rho[w] = rho[v] - s.cost[a]
+				} else {
+					rho[w] = rho[v] + s.cost[a]
+				}
+				stack = append(stack, w)
+			}
+		}
+	}
+	// Arcs at a bound between components, by tail and by head.
+	const lo, hi = 0, 1
+	var cnt [2][2][]int32 // [lower/upper][by tail/by head] starts
+	for i := range cnt {
+		for j := range cnt[i] {
+			cnt[i][j] = make([]int32, nv+1)
+		}
+	}
+	kind := func(a int) int {
+		switch {
+		case s.cap[a] == 0 || comp[s.src[a]] == comp[s.tgt[a]]:
+			return -1
+		case s.flow[a] == 0:
+			return lo
+		case s.flow[a] == s.cap[a]:
+			return hi
+		}
+		return -1
+	}
+	for a := 0; a < na; a++ {
+		if k := kind(a); k >= 0 {
+			cnt[k][0][s.src[a]+1]++
+			cnt[k][1][s.tgt[a]+1]++
+		}
+	}
+	var lists [2][2][]int32
+	var fills [2][2][]int32
+	for i := range cnt {
+		for j := range cnt[i] {
+			c := cnt[i][j]
+			for v := 0; v < nv; v++ {
+				c[v+1] += c[v]
+			}
+			lists[i][j] = make([]int32, c[nv])
+			fills[i][j] = append([]int32(nil), c[:nv]...)
+		}
+	}
+	for a := 0; a < na; a++ {
+		if k := kind(a); k >= 0 {
+			t, h := s.src[a], s.tgt[a]
+			lists[k][0][fills[k][0][t]] = int32(a)
+			fills[k][0][t]++
+			lists[k][1][fills[k][1][h]] = int32(a)
+			fills[k][1][h]++
+		}
+	}
+	arcs := func(k, by int, v int32) []int32 {
+		return lists[k][by][cnt[k][by][v]:cnt[k][by][v+1]]
+	}
+
+	tree := append(make([]int32, 0, nv), forest...)
+	attached := make([]bool, nv) // by representative
+	best := make([]int64, nv)    // best bound offered to a component
+	offered := make([]bool, nv)
+	off := make([]int64, nv)
+	pot := func(v int32) int64 { return rho[v] + off[comp[v]] }
+	var h offerHeap
+	offer := func(d int32, b int64, a int32) {
+		if attached[d] || (offered[d] && b <= best[d]) {
+			return
+		}
+		offered[d], best[d] = true, b
+		h.push(offer{b, d, a})
+	}
+	// hang offers every unattached neighbour of c a bound through each
+	// arc that could hang it below c.
+	hang := func(c int32) {
+		for _, u := range members[cstart[c]:cstart[c+1]] {
+			pu := pot(u)
+			// Lower arc w->u: p(w) >= p(u) - cost.
+			for _, a := range arcs(lo, 1, u) {
+				w := s.src[a]
+				offer(comp[w], pu-s.cost[a]-rho[w], a)
+			}
+			// Upper arc u->w: p(w) >= p(u) + cost.
+			for _, a := range arcs(hi, 0, u) {
+				w := s.tgt[a]
+				offer(comp[w], pu+s.cost[a]-rho[w], a)
+			}
+		}
+	}
+	for v0 := int32(0); v0 < int32(nv); v0++ {
+		c := comp[v0]
+		if attached[c] {
+			continue
+		}
+		tree = append(tree, int32(s.artStart)+v0)
+		attached[c] = true
+		off[c] = -rho[v0]
+		hang(c)
+		for len(h) > 0 {
+			o := h.pop()
+			if attached[o.comp] || o.bound != best[o.comp] {
+				continue // stale
+			}
+			tree = append(tree, o.arc)
+			attached[o.comp] = true
+			off[o.comp] = o.bound
+			hang(o.comp)
+		}
+	}
+	return tree
+}
+
+// offer is a bound on the potentials of a component not yet in the tree,
+// through an arc that can hang it there.
+type offer struct {
+	bound int64
+	comp  int32
+	arc   int32
+}
+
+// offerHeap is a binary max-heap of offers (highest bound first, then
+// lowest arc index).
+type offerHeap []offer
+
+func (o offer) before(p offer) bool {
+	return o.bound > p.bound || (o.bound == p.bound && o.arc < p.arc)
+}
+
+func (h *offerHeap) push(o offer) {
+	*h = append(*h, o)
+	q := *h
+	i := len(q) - 1
+	for i > 0 {
+		p := (i - 1) / 2
+		if !q[i].before(q[p]) {
+			break
+		}
+		q[i], q[p] = q[p], q[i]
+		i = p
+	}
+}
+
+func (h *offerHeap) pop() offer {
+	q := *h
+	top := q[0]
+	n := len(q) - 1
+	q[0] = q[n]
+	q = q[:n]
+	i := 0
+	for {
+		l := 2*i + 1
+		if l >= n {
+			break
+		}
+		c := l
+		if r := l + 1; r < n && q[r].before(q[l]) {
+			c = r
+		}
+		if !q[c].before(q[i]) {
+			break
+		}
+		q[i], q[c] = q[c], q[i]
+		i = c
+	}
+	*h = q
+	return top
+}
+
+// totalCost returns Σ rate[a]·x[a] (x >= 0) exactly: positive and negative
+// products are summed apart in 128 bits (with a carry check), then
+// subtracted.
+func totalCost(rate, x []int64) (Wide, error) {
+	var pHi, pLo, nHi, nLo, c uint64
+	over := false
+	for a, r := range rate {
+		f := x[a]
+		if r == 0 || f == 0 {
+			continue
+		}
+		if r > 0 {
+			hi, lo := bits.Mul64(uint64(r), uint64(f))
+			pLo, c = bits.Add64(pLo, lo, 0)
+			pHi, c = bits.Add64(pHi, hi, c)
+		} else {
+			hi, lo := bits.Mul64(uint64(-r), uint64(f))
+			nLo, c = bits.Add64(nLo, lo, 0)
+			nHi, c = bits.Add64(nHi, hi, c)
+		}
+		if c != 0 {
+			over = true
+		}
+	}
+	if over || pHi>>63 != 0 || nHi>>63 != 0 {
+		return Wide{}, fmt.Errorf("flow: solve: total cost: %w", ErrOverflow)
+	}
+	return Wide{hi: int64(pHi), lo: pLo}.Sub(Wide{hi: int64(nHi), lo: nLo})
 }

@@ -1,6 +1,7 @@
 package flow
 
 import (
+	"math"
 	"math/big"
 	"math/bits"
 )
@@ -39,7 +40,17 @@ func (w Wide) Neg() Wide {
 }
 
 // Sub returns w-x, or ErrOverflow.
-func (w Wide) Sub(x Wide) (Wide, error) { return w.Add(x.Neg()) }
+func (w Wide) Sub(x Wide) (Wide, error) {
+	if x.hi == math.MinInt64 && x.lo == 0 {
+		// -x = 2^127 does not fit: w - x = (w + 2^127 - 1) + 1 fits only when w < 0.
+		if w.hi >= 0 {
+			return Wide{}, ErrOverflow
+		}
+		s, _ := w.Add(Wide{hi: math.MaxInt64, lo: math.MaxUint64}) // w < 0: cannot overflow
+		return s.Add(Wide{lo: 1})
+	}
+	return w.Add(x.Neg())
+}
 
 // MulWide returns a×b exactly (it always fits 128 bits).
 func MulWide(a, b int64) Wide {

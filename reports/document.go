@@ -1,6 +1,7 @@
 package reports
 
 import (
+	"math/big"
 	"sort"
 
 	"lanecert/dual"
@@ -29,6 +30,13 @@ type Document struct {
 	NodeCount     int         `json:"node_count"`
 	LaneCount     int         `json:"lane_count"`
 	PlanCost      string      `json:"plan_cost"`
+	OptimalCost   *string     `json:"optimal_cost"`
+	Gap           *string     `json:"gap"`
+	GapShare      *string     `json:"gap_share"`
+	UniqueOptimum *bool       `json:"unique_optimum"`
+	Unbounded     bool        `json:"unbounded"`
+	Shortfall     *string     `json:"shortfall"`
+	Solver        *SolverDoc  `json:"solver"`
 	DualObjective *string     `json:"dual_objective"`
 	DualTerms     *DualTerms  `json:"dual_terms"`
 	Potentials    string      `json:"potentials_method,omitempty"`
@@ -40,12 +48,32 @@ type Document struct {
 	Rounded       []Rounded   `json:"rounded"`
 	Violations    []Violation `json:"violations"`
 	Cycles        []CycleDoc  `json:"cycles"`
+	Repair        []ChangeDoc `json:"repair"`
 	Lanes         []LaneDoc   `json:"lanes"`
 	Nodes         []NodeDoc   `json:"nodes"`
 	ExtraColumns  []string    `json:"extra_columns"`
 	Caution       string      `json:"caution"`
 	order         []int       // lanes, problem lanes first
 	net           *flow.Network
+}
+
+// SolverDoc says how the optimum was found.
+type SolverDoc struct {
+	// Start is "plan" when the simplex started from the audited plan,
+	// "scratch" otherwise.
+	Start  string `json:"start"`
+	Pivots int64  `json:"pivots"`
+}
+
+// ChangeDoc is one lane that the repair changes: the plan's quantity, the
+// optimal plan's, and the cost change rate × (new - old).
+type ChangeDoc struct {
+	Lane       string `json:"lane"`
+	From       string `json:"from"`
+	To         string `json:"to"`
+	Old        string `json:"old"`
+	New        string `json:"new"`
+	CostChange string `json:"cost_change"`
 }
 
 // DualTerms splits the dual objective.
@@ -144,8 +172,10 @@ type NodeDoc struct {
 func sp(s string) *string { return &s }
 
 // Build turns an audit into a Document. rounded lists the plan's rounded
-// quantities (may be nil).
-func Build(a *dual.Audit, in Inputs, rounded []flow.Rounding) *Document {
+// quantities (may be nil); opt, if not nil, is the comparison with the
+// optimum (it adds the optimal cost, the gap and the repair, and turns the
+// verdict into network-infeasible when no plan can meet the demands).
+func Build(a *dual.Audit, opt *dual.Optimum, in Inputs, rounded []flow.Rounding) (*Document, error) {
 	n := a.Net
 	d := &Document{
 		Schema:       Schema,
@@ -159,6 +189,7 @@ func Build(a *dual.Audit, in Inputs, rounded []flow.Rounding) *Document {
 		Rounded:      []Rounded{},
 		Violations:   []Violation{},
 		Cycles:       []CycleDoc{},
+		Repair:       []ChangeDoc{},
 		ExtraColumns: []string{},
 		Caution:      Caution,
 		net:          n,
@@ -252,7 +283,63 @@ func Build(a *dual.Audit, in Inputs, rounded []flow.Rounding) *Document {
 		d.Nodes[v] = nd
 	}
 	d.order = problemFirst(a)
-	return d
+	if opt != nil {
+		if err := d.addOptimum(a, opt); err != nil {
+			return nil, err
+		}
+	}
+	return d, nil
+}
+
+// VerdictNetworkInfeasible is the verdict when no plan can meet the demands.
+const VerdictNetworkInfeasible = "network-infeasible"
+
+func (d *Document) addOptimum(a *dual.Audit, o *dual.Optimum) error {
+	n := a.Net
+	start := "scratch"
+	if o.WarmStarted {
+		start = "plan"
+	}
+	d.Solver = &SolverDoc{Start: start, Pivots: o.Pivots}
+	switch o.Status {
+	case flow.Infeasible:
+		d.Verdict = VerdictNetworkInfeasible
+		d.Shortfall = sp(n.FormatQty(o.Shortfall))
+		return nil
+	case flow.Unbounded:
+		d.Unbounded = true
+		return nil
+	}
+	d.OptimalCost = sp(n.FormatCost(o.Cost))
+	u := o.Unique
+	d.UniqueOptimum = &u
+	if a.Verdict == dual.PlanInfeasible {
+		return nil
+	}
+	gap, err := o.Gap(a.Cost)
+	if err != nil {
+		return err
+	}
+	d.Gap = sp(n.FormatCost(gap))
+	if o.Cost.Sign() != 0 {
+		r := new(big.Rat).SetFrac(gap.Big(), o.Cost.Big())
+		r.Abs(r)
+		if gap.Sign() < 0 {
+			r.Neg(r)
+		}
+		d.GapShare = sp(r.FloatString(6))
+	}
+	changes, err := o.Changes(n, a.Flow)
+	if err != nil {
+		return err
+	}
+	for _, c := range changes {
+		d.Repair = append(d.Repair, ChangeDoc{
+			Lane: n.LaneName(c.Lane), From: n.Nodes[n.Tail[c.Lane]], To: n.Nodes[n.Head[c.Lane]],
+			Old: n.FormatQty(c.Old), New: n.FormatQty(c.New), CostChange: n.FormatCost(c.CostChange),
+		})
+	}
+	return nil
 }
 
 func stateName(s dual.LaneState) string {

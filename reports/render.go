@@ -5,6 +5,7 @@ import (
 	"encoding/json"
 	"fmt"
 	"io"
+	"math/big"
 	"strings"
 
 	"github.com/olekukonko/tablewriter"
@@ -147,6 +148,8 @@ func verdictLine(d *Document) string {
 		return "OPTIMAL: no plan for this network costs less."
 	case "not-optimal":
 		return "NOT OPTIMAL: a cheaper plan exists; the reroutes below prove it."
+	case VerdictNetworkInfeasible:
+		return "NETWORK INFEASIBLE: no plan can meet the demands with these lanes and bounds."
 	}
 	return "PLAN INFEASIBLE: the plan breaks the bounds or balances listed below."
 }
@@ -164,6 +167,26 @@ func writeHuman(w io.Writer, d *Document, opt Options, md bool) error {
 	p.kv("Network", netLine(d))
 	p.kv("Plan", d.Inputs.Plan)
 	p.kv("Plan cost", d.PlanCost)
+	switch {
+	case d.Shortfall != nil:
+		p.kv("Shortfall", fmt.Sprintf("at least %s units cannot be delivered by any plan", *d.Shortfall))
+	case d.Unbounded:
+		p.kv("Optimal cost", "none: a cycle of lanes without capacity lowers the cost without limit")
+	case d.OptimalCost != nil:
+		p.kv("Optimal cost", *d.OptimalCost)
+		if d.Gap != nil {
+			g := *d.Gap
+			if d.GapShare != nil {
+				g += fmt.Sprintf(" (%s of the optimum)", percent(*d.GapShare))
+			}
+			p.kv("Gap", g)
+		}
+		if *d.UniqueOptimum {
+			p.kv("Optimum", "unique: no other plan costs as little")
+		} else {
+			p.kv("Optimum", "not unique: other plans cost as little")
+		}
+	}
 	if d.DualObjective != nil {
 		p.kv("Dual objective", fmt.Sprintf("%s  (supply terms %s, minimum terms %s, capacity terms %s) = plan cost",
 			*d.DualObjective, d.DualTerms.Supply, d.DualTerms.Minimum, d.DualTerms.Capacity))
@@ -210,6 +233,29 @@ func writeHuman(w io.Writer, d *Document, opt Options, md bool) error {
 		}
 		if err := p.table([]string{"change", "lane", "from", "to", "rate"}, stepRows(c), []tw.Align{tw.AlignLeft, tw.AlignLeft, tw.AlignLeft, tw.AlignLeft, tw.AlignRight}); err != nil {
 			return err
+		}
+	}
+	if len(d.Repair) > 0 {
+		p.gap()
+		p.head("Repair")
+		how := "the network simplex started from this plan"
+		if d.Solver != nil && d.Solver.Start == "scratch" {
+			how = "the network simplex solved from scratch"
+		}
+		p.line("An optimal plan (%s) changes %d lane(s), largest saving first:", how, len(d.Repair))
+		var rows [][]string
+		for i, c := range d.Repair {
+			if opt.Rows > 0 && i == opt.Rows {
+				break
+			}
+			rows = append(rows, []string{c.Lane, c.From, c.To, c.Old, c.New, c.CostChange})
+		}
+		if err := p.table([]string{"lane", "from", "to", "plan", "optimal", "cost change"}, rows,
+			[]tw.Align{tw.AlignLeft, tw.AlignLeft, tw.AlignLeft, tw.AlignRight, tw.AlignRight, tw.AlignRight}); err != nil {
+			return err
+		}
+		if rest := len(d.Repair) - len(rows); rest > 0 {
+			p.line("... %d more change(s) not shown%s", rest, opt.MoreHint)
 		}
 	}
 	p.gap()
@@ -271,6 +317,16 @@ func violationText(v Violation) string {
 		return fmt.Sprintf("node %s: outflow minus inflow is %s, want %s to %s", v.Node, v.Actual, v.Min, max)
 	}
 	return fmt.Sprintf("total demand %s exceeds total supply %s: no plan can meet it", v.Min, v.Actual)
+}
+
+// percent turns a share such as "0.023100" into "2.31%" (rounded to two
+// places for display; the JSON keeps the share).
+func percent(share string) string {
+	r, ok := new(big.Rat).SetString(share)
+	if !ok {
+		return share
+	}
+	return r.Mul(r, big.NewRat(100, 1)).FloatString(2) + "%"
 }
 
 // negate flips the sign of an exact decimal string.

@@ -57,7 +57,19 @@ func build(t *testing.T, f fixture) *reports.Document {
 		t.Fatal(err)
 	}
 	f.shown.Tolerance = f.tol
-	return reports.Build(a, f.shown, in.Plan.Rounded)
+	var x []int64
+	if a.Verdict != dual.PlanInfeasible {
+		x = in.Plan.Flow
+	}
+	o, err := dual.Optimize(in.Net, x, nil)
+	if err != nil {
+		t.Fatal(err)
+	}
+	d, err := reports.Build(a, o, f.shown, in.Plan.Rounded)
+	if err != nil {
+		t.Fatal(err)
+	}
+	return d
 }
 
 func golden(t *testing.T, name string, got []byte) {

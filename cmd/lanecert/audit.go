@@ -147,12 +147,25 @@ func runAudit(o *auditOptions, s streams) error {
 	if err != nil {
 		return err
 	}
+	var start []int64
+	if a.Verdict != dual.PlanInfeasible {
+		start = in.Plan.Flow
+	}
+	prog := progressTo(s.err)
+	opt, err := dual.Optimize(in.Net, start, prog.callback())
+	prog.done()
+	if err != nil {
+		return err
+	}
 	names := reports.Inputs{Network: o.files.Network, Nodes: o.files.Nodes, Plan: in.PlanFile}
 	if o.shownAs != nil {
 		names = *o.shownAs
 	}
 	names.Tolerance = o.tolerance
-	doc := reports.Build(a, names, in.Plan.Rounded)
+	doc, err := reports.Build(a, opt, names, in.Plan.Rounded)
+	if err != nil {
+		return err
+	}
 	ropt := reports.Options{Rows: o.rows, MoreHint: " (--all-lanes shows them)", Nodes: o.showNodes}
 	write := func(w io.Writer) error { return reports.Write(w, doc, format, ropt) }
 	if o.output != "" {
@@ -163,15 +176,17 @@ func runAudit(o *auditOptions, s streams) error {
 	if err != nil {
 		return err
 	}
-	return verdictStatus(a.Verdict)
+	return verdictStatus(doc.Verdict)
 }
 
-func verdictStatus(v dual.Verdict) error {
+func verdictStatus(v string) error {
 	switch v {
-	case dual.Optimal:
+	case dual.Optimal.String():
 		return nil
-	case dual.NotOptimal:
+	case dual.NotOptimal.String():
 		return &statusError{exitNotOptimal}
+	case reports.VerdictNetworkInfeasible:
+		return &statusError{exitNetworkInfeasible}
 	}
 	return &statusError{exitPlanInfeasible}
 }

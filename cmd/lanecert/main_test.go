@@ -174,3 +174,58 @@ func TestHelpNamesExitCodes(t *testing.T) {
 		}
 	}
 }
+
+// TestRepairRoundTrip: repair the demo plan, write it in each format, read
+// it back and audit it: the verdict must be optimal.
+func TestRepairRoundTrip(t *testing.T) {
+	dir := t.TempDir()
+	if code, _, errText := runCLI(t, "demo", "--write", dir); code != exitOptimal {
+		t.Fatalf("demo --write: %d %s", code, errText)
+	}
+	lanes, nodes := filepath.Join(dir, "lanes.csv"), filepath.Join(dir, "nodes.csv")
+	for _, out := range []string{"fixed.csv", "fixed.flow"} {
+		path := filepath.Join(dir, out)
+		code, _, errText := runCLI(t, "repair", lanes, "--nodes", nodes, "-o", path)
+		if code != exitOptimal || !strings.Contains(errText, "lane(s) changed") {
+			t.Fatalf("repair -o %s: exit %d, stderr %q", out, code, errText)
+		}
+		args := []string{"audit", path, "--nodes", nodes}
+		if strings.HasSuffix(out, ".flow") {
+			args = []string{"audit", lanes, "--nodes", nodes, "--plan", path}
+		}
+		if code, stdout, _ := runCLI(t, args...); code != exitOptimal {
+			t.Fatalf("audit of repaired %s: exit %d\n%s", out, code, stdout)
+		}
+	}
+	code, stdout, _ := runCLI(t, "solve", lanes, "--nodes", nodes, "--format", "json")
+	if code != exitOptimal || !strings.Contains(stdout, `"schema": "lanecert.plan/1"`) {
+		t.Fatalf("solve --format json: exit %d\n%s", code, stdout)
+	}
+}
+
+func TestSolveStatuses(t *testing.T) {
+	dir := t.TempDir()
+	infeasible := filepath.Join(dir, "short.min")
+	os.WriteFile(infeasible, []byte("p min 2 1\nn 1 5\nn 2 -5\na 1 2 0 3 1\n"), 0o644)
+	code, _, errText := runCLI(t, "solve", infeasible)
+	// By hand: 5 demanded, lane capacity 3: 2 units short.
+	if code != exitNetworkInfeasible || !strings.Contains(errText, "at least 2 units") {
+		t.Fatalf("infeasible: exit %d, stderr %q", code, errText)
+	}
+	code, out, _ := runCLI(t, "audit", infeasible, "--plan", filepath.Join(dir, "none.flow"))
+	if code != exitBadInput {
+		t.Fatalf("missing plan file: exit %d %s", code, out)
+	}
+	plan := filepath.Join(dir, "short.flow")
+	os.WriteFile(plan, []byte("f 1 2 3\n"), 0o644)
+	code, out, _ = runCLI(t, "audit", infeasible, plan, "--format", "json")
+	if code != exitNetworkInfeasible || !strings.Contains(out, `"verdict": "network-infeasible"`) || !strings.Contains(out, `"shortfall": "2"`) {
+		t.Fatalf("audit of infeasible network: exit %d\n%s", code, out)
+	}
+	unbounded := filepath.Join(dir, "loop.min")
+	os.WriteFile(unbounded, []byte("p min 2 2\na 1 2 0 inf -3\na 2 1 0 inf 1\n"), 0o644)
+	code, _, errText = runCLI(t, "solve", unbounded)
+	if code != exitNotOptimal || !strings.Contains(errText, "without limit") {
+		t.Fatalf("unbounded: exit %d, stderr %q", code, errText)
+	}
+}

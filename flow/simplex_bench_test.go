@@ -1,0 +1,121 @@
+package flow_test
+
+import (
+	"os"
+	"path/filepath"
+	"sort"
+	"strings"
+	"sync"
+	"testing"
+
+	"lanecert/flow"
+	"lanecert/internal/netgen"
+)
+
+// benchCase is a generated network, built once, with its optimal solution
+// and a plan that is optimal except for 10 perturbed cycles.
+type benchCase struct {
+	name  string
+	gen   func() *flow.Network
+	once  sync.Once
+	net   *flow.Network
+	opt   *flow.Solution
+	start []int64
+}
+
+func (c *benchCase) load(b *testing.B) {
+	c.once.Do(func() {
+		c.net = c.gen()
+		sol, err := flow.Solve(c.net, flow.SolveOptions{})
+		if err != nil || sol.Status != flow.Optimal {
+			b.Fatalf("%s: %v %v", c.name, err, sol)
+		}
+		c.opt = sol
+		c.start = netgen.Perturb(11, c.net, sol.Flow, sol.InTree, 10)
+	})
+	if c.net == nil {
+		b.Fatalf("%s: not built", c.name)
+	}
+}
+
+// Fixed seeds; sizes in lanes.
+var benchCases = []*benchCase{
+	{name: "transport_1e4", gen: func() *flow.Network { return netgen.Transport(1001, 100, 100, 0, 1000) }},
+	{name: "transport_1e5", gen: func() *flow.Network { return netgen.Transport(1002, 316, 316, 0, 1000) }},
+	{name: "transport_sparse_1e5", gen: func() *flow.Network { return netgen.Transport(1003, 5000, 5000, 100000, 1000) }},
+	{name: "general_1e5", gen: func() *flow.Network { return netgen.General(1004, 10000, 100000, 500, 500, 0.3, 100) }},
+}
+
+func benchSolve(b *testing.B, cases []*benchCase) {
+	for _, c := range cases {
+		b.Run(c.name+"/cold", func(b *testing.B) {
+			c.load(b)
+			b.ReportAllocs()
+			var piv int64
+			for b.Loop() {
+				sol, err := flow.Solve(c.net, flow.SolveOptions{})
+				if err != nil || sol.Cost.Cmp(c.opt.Cost) != 0 {
+					b.Fatal("wrong answer")
+				}
+				piv = sol.Pivots
+			}
+			b.ReportMetric(float64(piv), "pivots")
+			b.ReportMetric(float64(len(c.net.Tail)), "lanes")
+		})
+		b.Run(c.name+"/repair10", func(b *testing.B) {
+			c.load(b)
+			b.ReportAllocs()
+			var piv int64
+			for b.Loop() {
+				sol, err := flow.Solve(c.net, flow.SolveOptions{Start: c.start})
+				if err != nil || !sol.WarmStarted || sol.Cost.Cmp(c.opt.Cost) != 0 {
+					b.Fatal("wrong answer")
+				}
+				piv = sol.Pivots
+			}
+			b.ReportMetric(float64(piv), "pivots")
+		})
+	}
+}
+
+func BenchmarkSolve(b *testing.B) { benchSolve(b, benchCases) }
+
+// BenchmarkSolveFiles solves every .min file in $LANECERT_BENCH_DIR (for
+// side-by-side runs with other solvers on the same files; skipped when
+// unset). Reading the file is not timed.
+func BenchmarkSolveFiles(b *testing.B) {
+	dir := os.Getenv("LANECERT_BENCH_DIR")
+	if dir == "" {
+		b.Skip("LANECERT_BENCH_DIR not set")
+	}
+	files, _ := filepath.Glob(filepath.Join(dir, "*.min"))
+	sort.Strings(files)
+	for _, f := range files {
+		name := strings.TrimSuffix(filepath.Base(f), ".min")
+		var once sync.Once
+		var n *flow.Network
+		b.Run(name, func(b *testing.B) {
+			once.Do(func() {
+				fh, err := os.Open(f)
+				if err != nil {
+					b.Fatal(err)
+				}
+				defer fh.Close()
+				if n, err = flow.ReadDIMACS(fh, f); err != nil {
+					b.Fatal(err)
+				}
+			})
+			b.ReportAllocs()
+			var sol *flow.Solution
+			for b.Loop() {
+				var err error
+				if sol, err = flow.Solve(n, flow.SolveOptions{}); err != nil {
+					b.Fatal(err)
+				}
+			}
+			b.ReportMetric(float64(sol.Pivots), "pivots")
+			b.ReportMetric(float64(len(n.Tail)), "lanes")
+			b.Logf("%s: %v cost %s (scale %d)", name, sol.Status, sol.Cost.Format(0), n.QtyPlaces+n.RatePlaces)
+		})
+	}
+}
