@@ -218,8 +218,20 @@ type simplex struct {
 // Cost: each pivot takes O(sqrt(|E|)) arc scans plus time linear in the
 // length of the cycle and the size of the moved subtree; the number of
 // pivots is finite but not polynomially bounded in the worst case (in
-// practice a small multiple of |V|). Memory: about 42 bytes per lane and
-// 120 bytes per node besides the Network and the Solution.
+// practice a small multiple of |V|); a warm start adds O(|V|+|E|) to build
+// its first tree. Memory: about 42 bytes per lane and 130 bytes per node,
+// the Solution included, besides the Network (a warm start adds up to
+// about 20 bytes per lane while it builds its tree).
+//
+// Warm start (opt.Start feasible): its free lanes, taken in lane order
+// while they close no cycle, form a forest; components are joined by
+// lanes at a bound, chosen breadth-first from the highest bound they put
+// on the potentials, or else hang from R by artificial arcs of zero flow
+// (never used again). Free lanes closing a cycle are pivoted in; if there
+// were any, the tree is rebuilt once from the resulting flows. The lanes
+// eligible in that tree are pivoted on in lane order, then block search
+// finishes. Cold and warm solves reach the same optimal cost (the plans
+// and potentials may differ where the optimum is not unique).
 //
 // The error is non-nil only when n is invalid (n.Validate) or a value
 // overflows; infeasible and unbounded problems are Status values.
@@ -271,16 +283,8 @@ func Solve(n *Network, opt SolveOptions) (*Solution, error) {
 		warm, superbasic = s.warmStart(opt.Start)
 	}
 	sol.WarmStarted = warm
-	for round := 0; warm && (round == 0 || len(superbasic) > 0); round++ {
-		if round > 0 {
-			// The pivots below left a tree whose duals may be far off
-			// (ties let perturbed lanes stay in it); rebuild from the
-			// flows, now basic, once.
-			if round > 1 {
-				break
-			}
-			superbasic = s.buildWarmTree()
-		}
+	var eligible []int32
+	for round := 0; warm && round < 2; round++ {
 		if err := s.computePotentialsChecked(); err != nil {
 			return nil, err
 		}
@@ -309,6 +313,17 @@ func Solve(n *Network, opt SolveOptions) (*Solution, error) {
 				return sol, nil
 			}
 		}
+		var err error
+		if eligible, err = s.eligibleArcs(); err != nil {
+			return nil, err
+		}
+		// Those pivots may leave perturbed lanes in the tree (ties) and
+		// the duals far off: then rebuild the tree once from the flows,
+		// now basic.
+		if round > 0 || len(superbasic) == 0 || len(eligible) <= max(64, s.nNodes/16) {
+			break
+		}
+		superbasic = s.buildWarmTree()
 	}
 	if !warm {
 		if err := s.coldStart(); err != nil {
@@ -348,7 +363,7 @@ func Solve(n *Network, opt SolveOptions) (*Solution, error) {
 	}
 	unb, err := false, error(nil)
 	if warm {
-		unb, err = s.warmPass()
+		unb, err = s.warmPass(eligible)
 	}
 	if !unb && err == nil {
 		unb, err = s.run()
@@ -647,24 +662,38 @@ func (s *simplex) run() (bool, error) {
 	}
 }
 
-// warmPass pivots, in index order, on the arcs eligible in the first tree
-// of a warm start, each if still eligible when its turn comes; block search
-// then finishes. Near an optimum the eligible arcs are few and block search
-// would scan most arcs to find each.
-func (s *simplex) warmPass() (bool, error) {
+// eligibleArcs returns the arcs eligible to enter, in index order.
+func (s *simplex) eligibleArcs() ([]int32, error) {
 	var list []int32
+	if !s.checked {
+		state, cost, src, tgt, pot := s.state, s.cost, s.src, s.tgt, s.pot
+		for e := range state {
+			if int64(state[e])*(cost[e]+pot[src[e]]-pot[tgt[e]]) < 0 {
+				list = append(list, int32(e))
+			}
+		}
+		return list, nil
+	}
 	for e := range s.state {
 		if s.state[e] == stateTree {
 			continue
 		}
 		r, err := s.reducedChecked(int32(e))
 		if err != nil {
-			return false, err
+			return nil, err
 		}
 		if int64(s.state[e])*r < 0 {
 			list = append(list, int32(e))
 		}
 	}
+	return list, nil
+}
+
+// warmPass pivots, in index order, on the arcs of list (those eligible in
+// the first tree of a warm start), each if still eligible when its turn
+// comes; block search then finishes. Near an optimum the eligible arcs are
+// few and block search would scan most arcs to find each.
+func (s *simplex) warmPass(list []int32) (bool, error) {
 	for _, e := range list {
 		r, err := s.reducedChecked(e)
 		if err != nil {

@@ -23,6 +23,7 @@ type auditOptions struct {
 	rows      int
 	allLanes  bool
 	showNodes bool
+	noSolve   bool
 	// shownAs, if set, names the inputs in the report instead of the paths.
 	shownAs *reports.Inputs
 }
@@ -46,6 +47,7 @@ func addOutputFlags(cmd *cobra.Command, o *auditOptions) {
 	f.IntVar(&o.rows, "rows", defaultRows, "lanes shown in the lane table, problem lanes first (0: all)")
 	f.BoolVar(&o.allLanes, "all-lanes", false, "show every lane in the lane table")
 	f.BoolVar(&o.showNodes, "show-nodes", false, "add the per-node table (balance and potential)")
+	f.BoolVar(&o.noSolve, "no-solve", false, "check the plan and its certificate only: skip solving for the optimal cost, the gap and the repair")
 }
 
 func newAuditCmd(s streams, runF func(*auditOptions) error) *cobra.Command {
@@ -151,11 +153,14 @@ func runAudit(o *auditOptions, s streams) error {
 	if a.Verdict != dual.PlanInfeasible {
 		start = in.Plan.Flow
 	}
-	prog := progressTo(s.err)
-	opt, err := dual.Optimize(in.Net, start, prog.callback())
-	prog.done()
-	if err != nil {
-		return err
+	var opt *dual.Optimum
+	if !o.noSolve {
+		prog := progressTo(s.err)
+		opt, err = dual.Optimize(in.Net, start, prog.callback())
+		prog.done()
+		if err != nil {
+			return err
+		}
 	}
 	names := reports.Inputs{Network: o.files.Network, Nodes: o.files.Nodes, Plan: in.PlanFile}
 	if o.shownAs != nil {

@@ -1,0 +1,178 @@
+package dual_test
+
+import (
+	"bytes"
+	"fmt"
+	"sync"
+	"testing"
+
+	"lanecert/dual"
+	"lanecert/flow"
+	"lanecert/internal/netgen"
+)
+
+// benchCase is a generated transportation network with an optimal plan, a
+// plan perturbed around 10 cycles, and both written as files.
+type benchCase struct {
+	name              string
+	m, n              int
+	once              sync.Once
+	net               *flow.Network
+	optimal, perturbd []int64
+	laneCSV, nodeCSV  []byte
+	dimacs, planFlow  []byte
+}
+
+// benchCases are the default sizes (10^4 and 10^5 lanes, complete
+// transportation networks); bench_large_test.go adds 10^6 with -tags large.
+var benchCases = []*benchCase{
+	{name: "trans_1e4", m: 100, n: 100},
+	{name: "trans_1e5", m: 316, n: 316},
+}
+
+func (c *benchCase) load(b *testing.B) {
+	c.once.Do(func() {
+		c.net = netgen.Transport(uint64(c.m*c.n), c.m, c.n, 0, 1000)
+		sol, err := flow.Solve(c.net, flow.SolveOptions{})
+		if err != nil || sol.Status != flow.Optimal {
+			panic(fmt.Sprint("bench setup: ", sol.Status, err))
+		}
+		c.optimal = sol.Flow
+		c.perturbd = netgen.Perturb(1, c.net, sol.Flow, sol.InTree, 10)
+		var buf bytes.Buffer
+		if err := flow.WriteLaneCSV(&buf, c.net, c.optimal); err != nil {
+			panic(err)
+		}
+		c.laneCSV = append([]byte(nil), buf.Bytes()...)
+		buf.Reset()
+		buf.WriteString("node,supply\n")
+		for v, s := range c.net.Supply {
+			fmt.Fprintf(&buf, "%s,%s\n", c.net.Nodes[v], c.net.FormatQty(s))
+		}
+		c.nodeCSV = append([]byte(nil), buf.Bytes()...)
+		buf.Reset()
+		if err := flow.WriteDIMACS(&buf, c.net); err != nil {
+			panic(err)
+		}
+		c.dimacs = append([]byte(nil), buf.Bytes()...)
+		buf.Reset()
+		if err := flow.WriteDIMACSPlan(&buf, c.net, c.optimal, sol.Cost); err != nil {
+			panic(err)
+		}
+		c.planFlow = append([]byte(nil), buf.Bytes()...)
+	})
+}
+
+func perLane(b *testing.B, lanes int) {
+	b.ReportMetric(float64(b.Elapsed().Nanoseconds())/float64(b.N)/float64(lanes), "ns/lane")
+}
+
+// BenchmarkAudit is the certificate check after parsing: an optimal plan
+// (potentials and dual objective) and a plan 10 cycles off the optimum
+// (violations and improving cycles).
+func BenchmarkAudit(b *testing.B) {
+	for _, c := range benchCases {
+		for _, kind := range []string{"optimal", "perturbed"} {
+			b.Run(c.name+"/"+kind, func(b *testing.B) {
+				c.load(b)
+				x := c.optimal
+				if kind == "perturbed" {
+					x = c.perturbd
+				}
+				b.ReportAllocs()
+				b.ResetTimer()
+				for i := 0; i < b.N; i++ {
+					a, err := dual.Check(c.net, x)
+					if err != nil {
+						b.Fatal(err)
+					}
+					if (a.Verdict == dual.Optimal) != (kind == "optimal") {
+						b.Fatalf("verdict %v", a.Verdict)
+					}
+				}
+				perLane(b, c.net.NumLanes())
+			})
+		}
+	}
+}
+
+// BenchmarkParse reads the network and the plan: the lane table with its
+// flow column and the node table (CSV), or DIMACS network and f lines.
+func BenchmarkParse(b *testing.B) {
+	for _, c := range benchCases {
+		b.Run(c.name+"/csv", func(b *testing.B) {
+			c.load(b)
+			b.SetBytes(int64(len(c.laneCSV) + len(c.nodeCSV)))
+			b.ReportAllocs()
+			b.ResetTimer()
+			for i := 0; i < b.N; i++ {
+				if _, _, err := parseCSV(c); err != nil {
+					b.Fatal(err)
+				}
+			}
+			perLane(b, c.net.NumLanes())
+		})
+		b.Run(c.name+"/dimacs", func(b *testing.B) {
+			c.load(b)
+			b.SetBytes(int64(len(c.dimacs) + len(c.planFlow)))
+			b.ReportAllocs()
+			b.ResetTimer()
+			for i := 0; i < b.N; i++ {
+				if _, _, err := parseDIMACS(c); err != nil {
+					b.Fatal(err)
+				}
+			}
+			perLane(b, c.net.NumLanes())
+		})
+	}
+}
+
+// BenchmarkAuditFromCSV is parse plus audit, as the command line runs it
+// with the solver left out.
+func BenchmarkAuditFromCSV(b *testing.B) {
+	for _, c := range benchCases {
+		b.Run(c.name, func(b *testing.B) {
+			c.load(b)
+			b.ReportAllocs()
+			b.ResetTimer()
+			for i := 0; i < b.N; i++ {
+				n, x, err := parseCSV(c)
+				if err != nil {
+					b.Fatal(err)
+				}
+				if _, err := dual.Check(n, x); err != nil {
+					b.Fatal(err)
+				}
+			}
+			perLane(b, c.net.NumLanes())
+		})
+	}
+}
+
+func parseCSV(c *benchCase) (*flow.Network, []int64, error) {
+	n, raw, err := flow.ReadCSVNetwork(bytes.NewReader(c.laneCSV), "lanes.csv", bytes.NewReader(c.nodeCSV), "nodes.csv", flow.TableOptions{})
+	if err != nil {
+		return nil, nil, err
+	}
+	p, err := raw.Bind(n, nil)
+	if err != nil {
+		return nil, nil, err
+	}
+	return n, p.Flow, nil
+}
+
+func parseDIMACS(c *benchCase) (*flow.Network, []int64, error) {
+	n, err := flow.ReadDIMACS(bytes.NewReader(c.dimacs), "net.min")
+	if err != nil {
+		return nil, nil, err
+	}
+	raw, err := flow.ReadDIMACSPlan(bytes.NewReader(c.planFlow), "plan.flow", n)
+	if err != nil {
+		return nil, nil, err
+	}
+	p, err := raw.Bind(n, nil)
+	if err != nil {
+		return nil, nil, err
+	}
+	return n, p.Flow, nil
+}
