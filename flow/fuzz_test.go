@@ -234,8 +234,16 @@ func sameNetwork(t *testing.T, want, got *Network) {
 	w, g := *want, *got
 	w.NodeExtra, g.NodeExtra = norm(w.NodeExtra), norm(g.NodeExtra)
 	if !reflect.DeepEqual(w, g) {
-		t.Fatalf("first read got %#v,\nsecond read got %#v", w, g)
+		t.Fatalf("first read got %#v (extra %q, node extra %q),\nsecond read got %#v (extra %q, node extra %q)",
+			w, derefExtra(w.Extra), derefExtra(w.NodeExtra), g, derefExtra(g.Extra), derefExtra(g.NodeExtra))
 	}
+}
+
+func derefExtra(x *ExtraColumns) any {
+	if x == nil {
+		return nil
+	}
+	return *x
 }
 
 func FuzzReadCSVNetwork(f *testing.F) {

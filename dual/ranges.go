@@ -1,0 +1,680 @@
+package dual
+
+import (
+	"container/heap"
+	"fmt"
+
+	"lanecert/flow"
+)
+
+// LaneRange says how far a lane's rate can move before an optimal plan
+// stops being optimal (all in rate units). The plan stays optimal for every
+// rate in [Lower, Upper]; HasLower (HasUpper) false means no limit below
+// (above).
+//
+//   - An unused lane (at its minimum) has only a lower limit: its break-even
+//     rate. At or below it, more of the lane would lower or tie the total
+//     cost; the saving per unit is Lower minus the new rate.
+//   - A lane in use has both limits; a lane in use on a cycle of lanes in use
+//     with zero total cost has Lower = Upper = its rate.
+//   - A lane at capacity has only an upper limit, and CapacityValue: what one
+//     more unit of capacity would save (its reduced cost, made exact over the
+//     residual network), for at least CapacityUnits more units.
+//   - A fixed lane (minimum = capacity) has no limits.
+//
+// The limits are exact also when the plan is degenerate: Lower is the rate
+// minus the reduced cost of the cheapest route back through the residual
+// network, Upper the rate plus that of the cheapest route forward. ByRoute
+// reports whether such a route between pieces of lanes in use was needed
+// (false: the limit is a difference of node potentials).
+type LaneRange struct {
+	Lower, Upper       int64
+	HasLower, HasUpper bool
+	ByRoute            bool
+	CapacityValue      int64
+	// LowerBy and UpperBy name a lane that starts or stops being used when
+	// the rate passes the limit (-1 when none or the lane itself).
+	LowerBy, UpperBy flow.LaneID
+}
+
+// NodePrice is a node's marginal landed cost. Up is the cost of one more
+// unit demanded at the node (supplied by its piece's anchor: the hold node
+// when supply exceeds demand, else the origin with potential 0); Down is
+// the saving of one unit less. They differ only for degenerate plans; both
+// are exact. HasUp (HasDown) is false when no more (less) can be delivered,
+// or when no origin shares the node's piece of network.
+type NodePrice struct {
+	Up, Down       int64
+	HasUp, HasDown bool
+}
+
+// Sensitivity holds the ranges of every lane and the prices of every node
+// of an optimal plan.
+type Sensitivity struct {
+	Lanes []LaneRange
+	Nodes []NodePrice
+	// Routes counts the shortest-route searches that were needed.
+	Routes int
+}
+
+// Ranges computes the sensitivity of plan y, which must be optimal with
+// valid potentials p (as Check returns them). Cost: O(|V|+|E|) when the lanes
+// in use form one piece; otherwise one Dijkstra search over the pieces per
+// source piece and per lane in use or at capacity between pieces, each
+// O(|E| log |V|) at worst and usually stopped early.
+func Ranges(n *flow.Network, y []int64, p []int64) (*Sensitivity, error) {
+	f, err := flow.CheckPlan(n, y)
+	if err != nil {
+		return nil, err
+	}
+	if !f.Feasible() {
+		return nil, fmt.Errorf("dual: ranges need a feasible plan")
+	}
+	g := newGraph(n, y, f)
+	if _, err := g.forest(); err != nil {
+		return nil, err
+	}
+	r := newRanger(g, p)
+	if err := r.buildEdges(); err != nil {
+		return nil, err
+	}
+	s := &Sensitivity{Lanes: make([]LaneRange, g.m), Nodes: make([]NodePrice, g.nn)}
+	if err := r.lanes(s); err != nil {
+		return nil, err
+	}
+	if err := r.nodes(s); err != nil {
+		return nil, err
+	}
+	s.Routes = r.searches
+	return s, nil
+}
+
+// ranger answers shortest-route questions over the pieces of a plan.
+type ranger struct {
+	g *graph
+	p []int64 // potentials, the hold node's (0) last
+	k int     // pieces
+
+	// Residual arcs that are not forest arcs, by the piece of their
+	// from-node: from, to (nodes), w (reduced cost >= 0), arc, fwd.
+	start    []int32
+	from, to []int32
+	w        []int64
+	arcOf    []int32
+	fwd      []bool
+	// Reverse index: edges by the piece of their to-node.
+	rstart []int32
+	redges []int32
+
+	tin, tout []int32 // forest subtree intervals
+
+	// Search state, reused.
+	dist     []int64
+	settled  []bool
+	pred     []int32
+	touched  []int32
+	searches int
+}
+
+const unreached = int64(-1) << 63
+
+func newRanger(g *graph, p []int64) *ranger {
+	full := make([]int64, g.numNodes())
+	copy(full, p)
+	r := &ranger{g: g, p: full, k: g.pieces}
+	return r
+}
+
+// reducedDir returns the reduced cost of moving along arc e (forward or
+// backward) under r.p.
+func (r *ranger) reducedDir(e int, forward bool) (int64, error) {
+	g := r.g
+	_, _, _, rate := g.arc(e)
+	rc, err := flow.AddChecked(rate, r.p[g.tail(e)])
+	if err == nil {
+		rc, err = flow.SubChecked(rc, r.p[g.head(e)])
+	}
+	if err != nil {
+		return 0, fmt.Errorf("dual: reduced cost %w", err)
+	}
+	if !forward {
+		rc = -rc
+	}
+	return rc, nil
+}
+
+func (r *ranger) isForestArc(e int) bool {
+	g := r.g
+	return int(g.parentArc[g.head(e)]) == e || int(g.parentArc[g.tail(e)]) == e
+}
+
+func (r *ranger) buildEdges() error {
+	g := r.g
+	type edge struct {
+		from, to int32
+		w        int64
+		arc      int32
+		fwd      bool
+	}
+	var es []edge
+	for e, na := 0, g.numArcs(); e < na; e++ {
+		lo, hi, x, _ := g.arc(e)
+		if lo == hi || r.isForestArc(e) {
+			continue
+		}
+		t, h := g.tail(e), g.head(e)
+		if x < hi {
+			w, err := r.reducedDir(e, true)
+			if err != nil {
+				return err
+			}
+			if w < 0 {
+				return fmt.Errorf("%w: potentials are not valid for the plan (lane %d)", ErrInternal, e)
+			}
+			es = append(es, edge{t, h, w, int32(e), true})
+		}
+		if x > lo {
+			w, err := r.reducedDir(e, false)
+			if err != nil {
+				return err
+			}
+			if w < 0 {
+				return fmt.Errorf("%w: potentials are not valid for the plan (lane %d)", ErrInternal, e)
+			}
+			es = append(es, edge{h, t, w, int32(e), false})
+		}
+	}
+	k := r.k
+	r.start = make([]int32, k+1)
+	r.rstart = make([]int32, k+1)
+	for _, e := range es {
+		r.start[g.comp[e.from]+1]++
+		r.rstart[g.comp[e.to]+1]++
+	}
+	for i := 0; i < k; i++ {
+		r.start[i+1] += r.start[i]
+		r.rstart[i+1] += r.rstart[i]
+	}
+	ne := len(es)
+	r.from, r.to, r.w = make([]int32, ne), make([]int32, ne), make([]int64, ne)
+	r.arcOf, r.fwd = make([]int32, ne), make([]bool, ne)
+	r.redges = make([]int32, ne)
+	pos := append([]int32(nil), r.start[:k]...)
+	rpos := append([]int32(nil), r.rstart[:k]...)
+	for _, e := range es {
+		i := pos[g.comp[e.from]]
+		pos[g.comp[e.from]]++
+		r.from[i], r.to[i], r.w[i], r.arcOf[i], r.fwd[i] = e.from, e.to, e.w, e.arc, e.fwd
+		r.redges[rpos[g.comp[e.to]]] = i
+		rpos[g.comp[e.to]]++
+	}
+	r.subtrees()
+	nv := k + 1
+	r.dist = make([]int64, nv)
+	r.settled = make([]bool, nv)
+	r.pred = make([]int32, nv)
+	for i := range r.dist {
+		r.dist[i] = unreached
+		r.pred[i] = -1
+	}
+	return nil
+}
+
+// subtrees numbers the forest in depth-first order: v's subtree is the
+// nodes u with tin[v] <= tin[u] < tout[v].
+func (r *ranger) subtrees() {
+	g := r.g
+	nv := g.numNodes()
+	cstart := make([]int32, nv+1)
+	for v := 0; v < nv; v++ {
+		if e := g.parentArc[v]; e >= 0 {
+			cstart[g.other(int(e), int32(v))+1]++
+		}
+	}
+	for v := 0; v < nv; v++ {
+		cstart[v+1] += cstart[v]
+	}
+	kids := make([]int32, cstart[nv])
+	pos := append([]int32(nil), cstart[:nv]...)
+	for v := 0; v < nv; v++ {
+		if e := g.parentArc[v]; e >= 0 {
+			u := g.other(int(e), int32(v))
+			kids[pos[u]] = int32(v)
+			pos[u]++
+		}
+	}
+	r.tin, r.tout = make([]int32, nv), make([]int32, nv)
+	clock := int32(0)
+	type frame struct{ v, next int32 }
+	var stack []frame
+	for root := 0; root < nv; root++ {
+		if g.parentArc[root] >= 0 {
+			continue
+		}
+		stack = append(stack[:0], frame{int32(root), cstart[root]})
+		r.tin[root] = clock
+		clock++
+		for len(stack) > 0 {
+			top := &stack[len(stack)-1]
+			if top.next < cstart[top.v+1] {
+				c := kids[top.next]
+				top.next++
+				r.tin[c] = clock
+				clock++
+				stack = append(stack, frame{c, cstart[c]})
+				continue
+			}
+			r.tout[top.v] = clock
+			stack = stack[:len(stack)-1]
+		}
+	}
+}
+
+// split describes a piece cut in two by removing one forest arc: the nodes
+// of the subtree of child form the virtual piece k.
+type split struct {
+	piece int32
+	child int32 // -1: no split
+}
+
+func (r *ranger) pieceOf(v int32, sp split) int32 {
+	c := r.g.comp[v]
+	if sp.child >= 0 && c == sp.piece && r.tin[sp.child] <= r.tin[v] && r.tin[v] < r.tout[sp.child] {
+		return int32(r.k)
+	}
+	return c
+}
+
+// search runs Dijkstra over the pieces from the pieces of sources (distance
+// 0), skipping arc exclude (-1: none), until every target piece is settled.
+// Reverse searches follow edges backwards. It returns the distances (use
+// dist[piece], unreached when not reached) valid until the next search.
+func (r *ranger) search(sources []int32, targets []int32, sp split, exclude int32, reverse bool) error {
+	r.searches++
+	for _, v := range r.touched {
+		r.dist[v], r.settled[v], r.pred[v] = unreached, false, -1
+	}
+	r.touched = r.touched[:0]
+	h := &pieceHeap{}
+	for _, s := range sources {
+		if r.dist[s] != 0 {
+			r.dist[s] = 0
+			r.touched = append(r.touched, s)
+			heap.Push(h, pieceItem{0, s})
+		}
+	}
+	left := 0
+	for _, t := range targets {
+		if !r.settled[t] {
+			left++
+		}
+	}
+	want := make(map[int32]bool, len(targets))
+	for _, t := range targets {
+		want[t] = true
+	}
+	left = len(want)
+	for h.Len() > 0 && left > 0 {
+		it := heap.Pop(h).(pieceItem)
+		u := it.piece
+		if r.settled[u] || it.d != r.dist[u] {
+			continue
+		}
+		r.settled[u] = true
+		if want[u] {
+			left--
+		}
+		real := u
+		if int(u) == r.k {
+			real = sp.piece
+		}
+		var list []int32
+		if reverse {
+			list = r.redges[r.rstart[real]:r.rstart[real+1]]
+		} else {
+			list = nil
+		}
+		lo, hi := r.start[real], r.start[real+1]
+		n := int(hi - lo)
+		if reverse {
+			n = len(list)
+		}
+		for j := 0; j < n; j++ {
+			i := lo + int32(j)
+			if reverse {
+				i = list[j]
+			}
+			if r.arcOf[i] == exclude {
+				continue
+			}
+			a, b := r.from[i], r.to[i]
+			if reverse {
+				a, b = b, a
+			}
+			if r.pieceOf(a, sp) != u {
+				continue
+			}
+			v := r.pieceOf(b, sp)
+			if v == u || r.settled[v] {
+				continue
+			}
+			nd, err := flow.AddChecked(it.d, r.w[i])
+			if err != nil {
+				return fmt.Errorf("dual: route cost %w", err)
+			}
+			if r.dist[v] == unreached || nd < r.dist[v] || (nd == r.dist[v] && i < r.pred[v]) {
+				if r.dist[v] == unreached {
+					r.touched = append(r.touched, v)
+				}
+				r.dist[v], r.pred[v] = nd, i
+				heap.Push(h, pieceItem{nd, v})
+			}
+		}
+	}
+	return nil
+}
+
+type pieceItem struct {
+	d     int64
+	piece int32
+}
+
+type pieceHeap []pieceItem
+
+func (h pieceHeap) Len() int { return len(h) }
+func (h pieceHeap) Less(i, j int) bool {
+	if h[i].d != h[j].d {
+		return h[i].d < h[j].d
+	}
+	return h[i].piece < h[j].piece
+}
+func (h pieceHeap) Swap(i, j int) { h[i], h[j] = h[j], h[i] }
+func (h *pieceHeap) Push(x any)   { *h = append(*h, x.(pieceItem)) }
+func (h *pieceHeap) Pop() any {
+	old := *h
+	it := old[len(old)-1]
+	*h = old[:len(old)-1]
+	return it
+}
+
+// firstLane returns a lane on the route found to piece v (the last inter-
+// piece arc on it), or -1.
+func (r *ranger) firstLane(v int32) flow.LaneID {
+	if r.dist[v] == unreached {
+		return -1
+	}
+	if i := r.pred[v]; i >= 0 && int(r.arcOf[i]) < r.g.m {
+		return flow.LaneID(r.arcOf[i])
+	}
+	return -1
+}
+
+// lanes fills in every lane's range.
+func (r *ranger) lanes(s *Sensitivity) error {
+	g := r.g
+	// Queries without a split: group by source piece.
+	type query struct {
+		lane int
+		kind int8 // 0: break-even (h->t), 1: upper (t->h), 2: capacity value (h->t avoiding the lane)
+	}
+	bySource := map[int32][]query{}
+	var order []int32
+	add := func(src int32, q query) {
+		if _, ok := bySource[src]; !ok {
+			order = append(order, src)
+		}
+		bySource[src] = append(bySource[src], q)
+	}
+	for e := 0; e < g.m; e++ {
+		lo, hi, x, rate := g.arc(e)
+		lr := &s.Lanes[e]
+		lr.LowerBy, lr.UpperBy = -1, -1
+		if lo == hi {
+			continue
+		}
+		t, h := g.tail(e), g.head(e)
+		diff, err := flow.SubChecked(r.p[h], r.p[t]) // = rate - reduced cost
+		if err != nil {
+			return fmt.Errorf("dual: potentials %w", err)
+		}
+		free := lo < x && x < hi
+		switch {
+		case free && !r.isForestArc(e):
+			// A cycle of lanes in use with zero cost: any change breaks it.
+			lr.Lower, lr.Upper, lr.HasLower, lr.HasUpper = rate, rate, true, true
+		case free:
+			if err := r.splitRange(e, lr); err != nil {
+				return err
+			}
+		case x == lo:
+			if g.comp[h] == g.comp[t] {
+				lr.Lower, lr.HasLower = diff, true
+			} else {
+				add(g.comp[h], query{e, 0})
+			}
+		default: // at capacity
+			if g.comp[h] == g.comp[t] {
+				lr.Upper, lr.HasUpper = diff, true
+				lr.CapacityValue = diff - rate
+			} else {
+				add(g.comp[t], query{e, 1})
+				add(g.comp[h], query{e, 2})
+			}
+		}
+	}
+	for _, src := range order {
+		qs := bySource[src]
+		var targets []int32
+		for _, q := range qs {
+			if q.kind == 1 {
+				targets = append(targets, g.comp[g.head(q.lane)])
+			} else {
+				targets = append(targets, g.comp[g.tail(q.lane)])
+			}
+		}
+		if err := r.search([]int32{src}, targets, split{child: -1}, -1, false); err != nil {
+			return err
+		}
+		var again []query
+		for _, q := range qs {
+			e := q.lane
+			_, _, _, rate := g.arc(e)
+			t, h := g.tail(e), g.head(e)
+			diff := r.p[h] - r.p[t] // checked above
+			lr := &s.Lanes[e]
+			switch q.kind {
+			case 0:
+				if d := r.dist[g.comp[t]]; d != unreached {
+					lr.Lower, lr.HasLower, lr.ByRoute = diff-d, true, true
+					lr.LowerBy = -1
+				}
+			case 1:
+				if d := r.dist[g.comp[h]]; d != unreached {
+					lr.Upper, lr.HasUpper, lr.ByRoute = diff+d, true, true
+					lr.UpperBy = r.firstLane(g.comp[h])
+				}
+			case 2:
+				// The route found may be the lane itself (backwards): then
+				// search again without it.
+				if r.routeUses(g.comp[t], int32(e)) {
+					again = append(again, q)
+					continue
+				}
+				if d := r.dist[g.comp[t]]; d != unreached {
+					lr.CapacityValue = max(0, diff-rate-d)
+				}
+			}
+		}
+		for _, q := range again {
+			e := q.lane
+			_, _, _, rate := g.arc(e)
+			t, h := g.tail(e), g.head(e)
+			if err := r.search([]int32{g.comp[h]}, []int32{g.comp[t]}, split{child: -1}, int32(e), false); err != nil {
+				return err
+			}
+			if d := r.dist[g.comp[t]]; d != unreached {
+				s.Lanes[e].CapacityValue = max(0, r.p[h]-r.p[t]-rate-d)
+			}
+		}
+	}
+	return nil
+}
+
+// routeUses reports whether the route found to piece v uses arc e.
+func (r *ranger) routeUses(v int32, e int32) bool {
+	for steps := 0; v >= 0 && r.pred[v] >= 0 && steps <= r.k+1; steps++ {
+		i := r.pred[v]
+		if r.arcOf[i] == e {
+			return true
+		}
+		v = r.g.comp[r.from[i]]
+	}
+	return false
+}
+
+// splitRange computes the range of a forest lane: removing it cuts its piece
+// in two; the limits are the cheapest routes between the two sides.
+func (r *ranger) splitRange(e int, lr *LaneRange) error {
+	g := r.g
+	_, _, _, rate := g.arc(e)
+	t, h := g.tail(e), g.head(e)
+	child := h
+	if int(g.parentArc[t]) == e {
+		child = t
+	}
+	sp := split{piece: g.comp[t], child: child}
+	st, sh := r.pieceOf(t, sp), r.pieceOf(h, sp)
+	// Lower limit: the cheapest route from the head's side to the tail's.
+	if err := r.search([]int32{sh}, []int32{st}, sp, int32(e), false); err != nil {
+		return err
+	}
+	if d := r.dist[st]; d != unreached {
+		lr.Lower, lr.HasLower = rate-d, true
+		lr.LowerBy = r.firstLane(st)
+		lr.ByRoute = r.k > 1
+	}
+	if err := r.search([]int32{st}, []int32{sh}, sp, int32(e), false); err != nil {
+		return err
+	}
+	if d := r.dist[sh]; d != unreached {
+		lr.Upper, lr.HasUpper = rate+d, true
+		lr.UpperBy = r.firstLane(sh)
+		lr.ByRoute = r.k > 1
+	}
+	return nil
+}
+
+// nodes fills in the node prices.
+func (r *ranger) nodes(s *Sensitivity) error {
+	g := r.g
+	anchors := r.anchors()
+	// Group nodes by their anchor's piece.
+	byAnchor := map[int32][]int32{}
+	var order []int32
+	for v := 0; v < g.nn; v++ {
+		if anchors[v] < 0 {
+			continue // no supply reaches v: no price
+		}
+		a := g.comp[anchors[v]]
+		if _, ok := byAnchor[a]; !ok {
+			order = append(order, a)
+		}
+		byAnchor[a] = append(byAnchor[a], int32(v))
+	}
+	for _, a := range order {
+		vs := byAnchor[a]
+		targets := make([]int32, len(vs))
+		for i, v := range vs {
+			targets[i] = g.comp[v]
+		}
+		if err := r.search([]int32{a}, targets, split{child: -1}, -1, false); err != nil {
+			return err
+		}
+		for _, v := range vs {
+			if d := r.dist[g.comp[v]]; d != unreached {
+				s.Nodes[v].Up, s.Nodes[v].HasUp = r.p[v]+d, true
+			}
+			if r.keeps(v) {
+				// An origin that keeps supply keeps one unit less.
+				s.Nodes[v].Up, s.Nodes[v].HasUp = 0, true
+			}
+		}
+		if err := r.search([]int32{a}, targets, split{child: -1}, -1, true); err != nil {
+			return err
+		}
+		for _, v := range vs {
+			d := r.dist[g.comp[v]]
+			if d != unreached {
+				s.Nodes[v].Down, s.Nodes[v].HasDown = r.p[v]-d, true
+			}
+			if g.hold >= 0 && g.n.Supply[v] >= 0 {
+				// One unit less demanded at an origin (or at a node without
+				// supply or demand, which then becomes one) is one more
+				// unit of its supply, which it may keep at no cost.
+				s.Nodes[v].Down, s.Nodes[v].HasDown = max(0, s.Nodes[v].Down), true
+				if d == unreached {
+					s.Nodes[v].Down = 0
+				}
+			}
+		}
+	}
+	return nil
+}
+
+// keeps reports whether v is an origin keeping part of its supply.
+func (r *ranger) keeps(v int32) bool {
+	g := r.g
+	return g.hold >= 0 && g.n.Supply[v] > 0 && g.held[int(g.holdOf[v])-g.m] > 0
+}
+
+// anchors returns, per node, the anchor of its weakly connected piece of the
+// network: the hold node, else its origin of least potential (see the
+// package documentation); -1 when the piece has no origin.
+func (r *ranger) anchors() []int32 {
+	g := r.g
+	nv := g.numNodes()
+	parent := make([]int32, nv)
+	for v := range parent {
+		parent[v] = int32(v)
+	}
+	find := func(v int32) int32 {
+		for parent[v] != v {
+			parent[v] = parent[parent[v]]
+			v = parent[v]
+		}
+		return v
+	}
+	for e, na := 0, g.numArcs(); e < na; e++ {
+		a, b := find(g.tail(e)), find(g.head(e))
+		if a != b {
+			parent[max(a, b)] = min(a, b)
+		}
+	}
+	best := make([]int32, nv)
+	kind := make([]int8, nv)
+	for v := range best {
+		best[v] = -1
+	}
+	for v := 0; v < nv; v++ {
+		root := find(int32(v))
+		k := int8(1)
+		switch {
+		case int32(v) == g.hold:
+			k = 3
+		case g.n.Supply[v] > 0:
+			k = 2
+		}
+		if best[root] < 0 || k > kind[root] || (k == kind[root] && r.p[v] < r.p[best[root]]) {
+			best[root], kind[root] = int32(v), k
+		}
+	}
+	out := make([]int32, nv)
+	for v := range out {
+		root := find(int32(v))
+		out[v] = best[root]
+		if kind[root] < 2 {
+			out[v] = -1 // no supply can reach this piece
+		}
+	}
+	return out
+}

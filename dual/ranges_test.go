@@ -1,0 +1,205 @@
+package dual_test
+
+import (
+	"math/rand/v2"
+	"testing"
+
+	"lanecert/dual"
+	"lanecert/flow"
+	"lanecert/internal/oracle"
+	"lanecert/internal/randnet"
+)
+
+// planCost is Σ rate·y under rates.
+func planCost(rates, y []int64) flow.Wide {
+	var c flow.Wide
+	for e, q := range y {
+		c, _ = c.AddProduct(rates[e], q)
+	}
+	return c
+}
+
+// stillOptimal asks the LP oracle whether plan y is optimal for n with
+// lane e's rate set to rate.
+func stillOptimal(t *testing.T, n *flow.Network, y []int64, e int, rate int64) bool {
+	t.Helper()
+	c := *n
+	c.Rate = append([]int64(nil), n.Rate...)
+	c.Rate[e] = rate
+	res, err := oracle.MinCost(&c)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if res.Status != oracle.Optimal {
+		return false
+	}
+	return oracle.SameCost(planCost(c.Rate, y), c.QtyPlaces+c.RatePlaces, res)
+}
+
+// TestRangesAgainstOracle moves each rate to its reported limit (the plan
+// must stay optimal) and one rate unit beyond it (it must not), re-solving
+// with the independent LP oracle; lanes without a limit are moved far; the
+// capacity value and node prices are checked by changing one unit.
+func TestRangesAgainstOracle(t *testing.T) {
+	rng := rand.New(rand.NewPCG(11, 4))
+	const far = 1 << 20
+	checkedLimits, degenerate := 0, 0
+	for i := 0; i < 400; i++ {
+		o := randnet.RandomOptions(rng)
+		o.NegativeRates = false
+		o.Infeasible = false
+		if o.Lanes > 14 {
+			o.Lanes = 14
+		}
+		n := randnet.Network(rng, o)
+		opt, err := dual.Optimize(n, nil, nil)
+		if err != nil {
+			t.Fatal(err)
+		}
+		if opt.Status != flow.Optimal {
+			continue
+		}
+		a, err := dual.Check(n, opt.Flow)
+		if err != nil {
+			t.Fatal(err)
+		}
+		if a.Pieces > 1 {
+			degenerate++
+		}
+		s, err := dual.Ranges(n, opt.Flow, a.Potential)
+		if err != nil {
+			t.Fatalf("case %d: %v", i, err)
+		}
+		y := opt.Flow
+		for e, lr := range s.Lanes {
+			if lr.HasLower {
+				checkedLimits++
+				if !stillOptimal(t, n, y, e, lr.Lower) {
+					t.Fatalf("case %d lane %d: not optimal at its lower limit %d (rate %d)", i, e, lr.Lower, n.Rate[e])
+				}
+				if stillOptimal(t, n, y, e, lr.Lower-1) {
+					t.Fatalf("case %d lane %d: still optimal below its lower limit %d", i, e, lr.Lower)
+				}
+			} else if !stillOptimal(t, n, y, e, n.Rate[e]-far) {
+				t.Fatalf("case %d lane %d: no lower limit reported, but a far lower rate breaks the plan", i, e)
+			}
+			if lr.HasUpper {
+				checkedLimits++
+				if !stillOptimal(t, n, y, e, lr.Upper) {
+					t.Fatalf("case %d lane %d: not optimal at its upper limit %d (rate %d)", i, e, lr.Upper, n.Rate[e])
+				}
+				if stillOptimal(t, n, y, e, lr.Upper+1) {
+					t.Fatalf("case %d lane %d: still optimal above its upper limit %d", i, e, lr.Upper)
+				}
+			} else if !stillOptimal(t, n, y, e, n.Rate[e]+far) {
+				t.Fatalf("case %d lane %d: no upper limit reported, but a far higher rate breaks the plan", i, e)
+			}
+			if y[e] == n.Upper[e] && n.Lower[e] < n.Upper[e] {
+				// One more unit of capacity saves exactly CapacityValue.
+				c := *n
+				c.Upper = append([]int64(nil), n.Upper...)
+				c.Upper[e]++
+				res, err := oracle.MinCost(&c)
+				if err != nil || res.Status != oracle.Optimal {
+					t.Fatalf("oracle: %v %v", res.Status, err)
+				}
+				want, _ := opt.Cost.Sub(flow.WideFrom(lr.CapacityValue))
+				if !oracle.SameCost(want, n.QtyPlaces+n.RatePlaces, res) {
+					t.Fatalf("case %d lane %d: capacity value %d, but one more unit gives %v from %s", i, e, lr.CapacityValue, res.CostScaled, n.FormatCost(opt.Cost))
+				}
+			}
+		}
+		checkNodePrices(t, i, n, opt.Cost, a.Potential, s)
+	}
+	t.Logf("%d limits checked; %d degenerate optima", checkedLimits, degenerate)
+	if degenerate < 30 {
+		t.Errorf("only %d degenerate optima: the test no longer covers them", degenerate)
+	}
+}
+
+// checkNodePrices changes one node's demand by one unit (and its anchor's
+// supply alike, when supply does not exceed demand) and compares the
+// optimum's change with the reported prices.
+func checkNodePrices(t *testing.T, i int, n *flow.Network, cost flow.Wide, p []int64, s *dual.Sensitivity) {
+	t.Helper()
+	var supply, demand int64
+	for _, b := range n.Supply {
+		if b > 0 {
+			supply += b
+		} else {
+			demand -= b
+		}
+	}
+	excess := supply > demand
+	comp := components(n)
+	for v := range n.Nodes {
+		// The origin of least potential (then lowest number) in v's weakly
+		// connected piece; without one, no price is defined.
+		anchor := -1
+		for u := range n.Nodes {
+			if comp[u] == comp[v] && n.Supply[u] > 0 && (anchor < 0 || p[u] < p[anchor]) {
+				anchor = u
+			}
+		}
+		if anchor < 0 {
+			if s.Nodes[v].HasUp || s.Nodes[v].HasDown {
+				t.Fatalf("case %d node %d: a price without an origin in its piece", i, v)
+			}
+			continue
+		}
+		if excess {
+			anchor = -1 // the kept supply serves the extra unit
+		}
+		for _, dir := range []int64{1, -1} {
+			c := *n
+			c.Supply = append([]int64(nil), n.Supply...)
+			c.Supply[v] -= dir // one more (less) unit demanded at v
+			if anchor >= 0 {
+				c.Supply[anchor] += dir
+			}
+			res, err := oracle.MinCost(&c)
+			if err != nil {
+				t.Fatal(err)
+			}
+			np := s.Nodes[v]
+			has, price := np.HasUp, np.Up
+			if dir < 0 {
+				has, price = np.HasDown, -np.Down
+			}
+			if !has {
+				if res.Status == oracle.Optimal {
+					t.Fatalf("case %d node %d dir %d: reported impossible, oracle finds %v", i, v, dir, res.CostScaled)
+				}
+				continue
+			}
+			want, _ := cost.Add(flow.WideFrom(price))
+			if res.Status != oracle.Optimal || !oracle.SameCost(want, n.QtyPlaces+n.RatePlaces, res) {
+				t.Fatalf("case %d node %d dir %d: price %d predicts %s, oracle %v %v", i, v, dir, price, n.FormatCost(want), res.Status, res.CostScaled)
+			}
+		}
+	}
+}
+
+// components numbers the weakly connected pieces of n (union-find).
+func components(n *flow.Network) []int {
+	parent := make([]int, len(n.Nodes))
+	for v := range parent {
+		parent[v] = v
+	}
+	var find func(int) int
+	find = func(v int) int {
+		for parent[v] != v {
+			v = parent[v]
+		}
+		return v
+	}
+	for e := range n.Tail {
+		a, b := find(int(n.Tail[e])), find(int(n.Head[e]))
+		parent[a] = b
+	}
+	out := make([]int, len(n.Nodes))
+	for v := range out {
+		out[v] = find(v)
+	}
+	return out
+}
