@@ -176,3 +176,48 @@ func parseDIMACS(c *benchCase) (*flow.Network, []int64, error) {
 	}
 	return n, p.Flow, nil
 }
+
+// rangeCases are 10^5-lane networks for the sensitivity benchmarks.
+var rangeCases = []struct {
+	name string
+	make func() *flow.Network
+}{
+	{"trans_1e5", func() *flow.Network { return netgen.Transport(7, 316, 316, 0, 1000) }},
+	{"trans_sparse_1e5", func() *flow.Network { return netgen.Transport(8, 5000, 5000, 100000, 1000) }},
+	{"general_1e5", func() *flow.Network { return netgen.General(9, 10000, 100000, 500, 500, 0.3, 1000) }},
+}
+
+// BenchmarkRanges times the ranges of every lane and the prices of every
+// node of an optimal plan, next to the solve that found the plan (report
+// the ratio of the two from one run).
+func BenchmarkRanges(b *testing.B) {
+	for _, c := range rangeCases {
+		n := c.make()
+		sol, err := flow.Solve(n, flow.SolveOptions{})
+		if err != nil || sol.Status != flow.Optimal {
+			b.Fatal(sol.Status, err)
+		}
+		a, err := dual.Check(n, sol.Flow)
+		if err != nil {
+			b.Fatal(err)
+		}
+		b.Run(c.name+"/solve", func(b *testing.B) {
+			for i := 0; i < b.N; i++ {
+				if _, err := flow.Solve(n, flow.SolveOptions{}); err != nil {
+					b.Fatal(err)
+				}
+			}
+		})
+		b.Run(c.name+"/ranges", func(b *testing.B) {
+			b.ReportAllocs()
+			var s *dual.Sensitivity
+			for i := 0; i < b.N; i++ {
+				if s, err = dual.Ranges(n, sol.Flow, a.Potential); err != nil {
+					b.Fatal(err)
+				}
+			}
+			b.ReportMetric(float64(s.Routes), "searches")
+			b.ReportMetric(float64(a.Pieces), "pieces")
+		})
+	}
+}

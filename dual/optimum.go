@@ -44,8 +44,9 @@ type Change struct {
 // Optimize solves the network with the primal network simplex of package
 // flow, starting from the plan x when x is feasible (x may be nil), and
 // checks the result's certificate. progress, if not nil, is called now and
-// then with the number of pivots. Cost: one solve plus O(|V|+|E|).
-func Optimize(n *flow.Network, x []int64, progress func(int64)) (*Optimum, error) {
+// then with the number of pivots and the current cost (see
+// flow.SolveOptions). Cost: one solve plus O(|V|+|E|).
+func Optimize(n *flow.Network, x []int64, progress func(pivots int64, cost flow.Wide)) (*Optimum, error) {
 	sol, err := flow.Solve(n, flow.SolveOptions{Start: x, Progress: progress})
 	if err != nil {
 		return nil, err

@@ -3,6 +3,7 @@ package dual
 import (
 	"container/heap"
 	"fmt"
+	"sort"
 
 	"lanecert/flow"
 )
@@ -108,6 +109,18 @@ type ranger struct {
 
 	tin, tout []int32 // forest subtree intervals
 
+	// inner holds the residual edges inside pieces; leave[v] (enter[v]) is
+	// the least reduced cost of an inner edge leaving (entering) the subtree
+	// of v within its piece, leaveBy/enterBy its arc (-1: none).
+	inner            []innerEdge
+	leave, enter     []int64
+	leaveBy, enterBy []int32
+
+	// reach[c] is the set of strongly connected groups of pieces that group
+	// c reaches (nil when there are too many pieces to keep it).
+	group []int32
+	reach [][]uint64
+
 	// Search state, reused.
 	dist     []int64
 	settled  []bool
@@ -184,6 +197,22 @@ func (r *ranger) buildEdges() error {
 			es = append(es, edge{h, t, w, int32(e), false})
 		}
 	}
+	// Edges inside one piece only matter for lanes of that piece (covering,
+	// below); searches over pieces use the edges between pieces.
+	var inner []edge
+	outer := es[:0]
+	for _, e := range es {
+		if g.comp[e.from] == g.comp[e.to] {
+			inner = append(inner, e)
+		} else {
+			outer = append(outer, e)
+		}
+	}
+	es = outer
+	r.inner = make([]innerEdge, len(inner))
+	for i, e := range inner {
+		r.inner[i] = innerEdge{from: e.from, to: e.to, w: e.w, arc: e.arc}
+	}
 	k := r.k
 	r.start = make([]int32, k+1)
 	r.rstart = make([]int32, k+1)
@@ -209,6 +238,8 @@ func (r *ranger) buildEdges() error {
 		rpos[g.comp[e.to]]++
 	}
 	r.subtrees()
+	r.cover()
+	r.reachability()
 	nv := k + 1
 	r.dist = make([]int64, nv)
 	r.settled = make([]bool, nv)
@@ -270,6 +301,176 @@ func (r *ranger) subtrees() {
 	}
 }
 
+type innerEdge struct {
+	from, to int32
+	w        int64
+	arc      int32
+}
+
+// cover finds, for every forest arc, the cheapest inner edge crossing the
+// cut it makes in each direction: edges in order of reduced cost mark the
+// tree paths they cross, each tree node once (jump pointers skip nodes
+// already marked). O(|E| log |E| + |V|).
+func (r *ranger) cover() {
+	g := r.g
+	nv := g.numNodes()
+	order := make([]int32, len(r.inner))
+	for i := range order {
+		order[i] = int32(i)
+	}
+	sort.Slice(order, func(i, j int) bool {
+		a, b := r.inner[order[i]], r.inner[order[j]]
+		if a.w != b.w {
+			return a.w < b.w
+		}
+		return order[i] < order[j]
+	})
+	parentNode := func(v int32) int32 {
+		if e := g.parentArc[v]; e >= 0 {
+			return g.other(int(e), v)
+		}
+		return v
+	}
+	isAnc := func(x, v int32) bool { return r.tin[x] <= r.tin[v] && r.tin[v] < r.tout[x] }
+	mark := func(best []int64, by []int32, entering bool) {
+		jump := make([]int32, nv)
+		for v := range jump {
+			jump[v] = int32(v)
+			best[v] = unreached
+			by[v] = -1
+		}
+		var find func(int32) int32
+		find = func(v int32) int32 {
+			for jump[v] != v {
+				jump[v] = jump[jump[v]]
+				v = jump[v]
+			}
+			return v
+		}
+		for _, i := range order {
+			e := r.inner[i]
+			u, w := e.from, e.to
+			if entering {
+				u, w = w, u
+			}
+			for x := find(u); !isAnc(x, w); x = find(x) {
+				best[x], by[x] = e.w, e.arc
+				jump[x] = parentNode(x)
+			}
+		}
+	}
+	r.leave, r.leaveBy = make([]int64, nv), make([]int32, nv)
+	r.enter, r.enterBy = make([]int64, nv), make([]int32, nv)
+	if nv == 0 {
+		return
+	}
+	mark(r.leave, r.leaveBy, false)
+	mark(r.enter, r.enterBy, true)
+}
+
+// maxReachPieces bounds the pieces for which reachability sets are kept
+// (memory grows with their square).
+const maxReachPieces = 20000
+
+// reachability groups the pieces into strongly connected groups (Tarjan)
+// and records which groups each reaches, so searches need not wait for
+// pieces they can never reach. O(k + r + k·k/64).
+func (r *ranger) reachability() {
+	k := r.k
+	if k > maxReachPieces {
+		return
+	}
+	r.group = make([]int32, k)
+	index := make([]int32, k)
+	low := make([]int32, k)
+	onStack := make([]bool, k)
+	for i := range index {
+		index[i] = -1
+	}
+	var stack []int32
+	next, groups := int32(0), int32(0)
+	type frame struct{ v, e int32 }
+	var calls []frame
+	for root := 0; root < k; root++ {
+		if index[root] >= 0 {
+			continue
+		}
+		calls = append(calls[:0], frame{int32(root), r.start[root]})
+		index[root], low[root] = next, next
+		next++
+		stack = append(stack, int32(root))
+		onStack[root] = true
+		for len(calls) > 0 {
+			f := &calls[len(calls)-1]
+			v := f.v
+			if f.e < r.start[v+1] {
+				w := r.g.comp[r.to[f.e]]
+				f.e++
+				if index[w] < 0 {
+					index[w], low[w] = next, next
+					next++
+					stack = append(stack, w)
+					onStack[w] = true
+					calls = append(calls, frame{w, r.start[w]})
+				} else if onStack[w] && index[w] < low[v] {
+					low[v] = index[w]
+				}
+				continue
+			}
+			if low[v] == index[v] {
+				for {
+					w := stack[len(stack)-1]
+					stack = stack[:len(stack)-1]
+					onStack[w] = false
+					r.group[w] = groups
+					if w == v {
+						break
+					}
+				}
+				groups++
+			}
+			calls = calls[:len(calls)-1]
+			if len(calls) > 0 {
+				u := calls[len(calls)-1].v
+				if low[v] < low[u] {
+					low[u] = low[v]
+				}
+			}
+		}
+	}
+	// Tarjan numbers groups sinks first: each group's successors have
+	// smaller numbers, so one pass in increasing order suffices.
+	words := (int(groups) + 63) / 64
+	r.reach = make([][]uint64, groups)
+	members := make([][]int32, groups)
+	for c := 0; c < k; c++ {
+		members[r.group[c]] = append(members[r.group[c]], int32(c))
+	}
+	for gr := int32(0); gr < groups; gr++ {
+		set := make([]uint64, words)
+		set[gr/64] |= 1 << (gr % 64)
+		for _, c := range members[gr] {
+			for i := r.start[c]; i < r.start[c+1]; i++ {
+				if sg := r.group[r.g.comp[r.to[i]]]; sg != gr {
+					for j, x := range r.reach[sg] {
+						set[j] |= x
+					}
+				}
+			}
+		}
+		r.reach[gr] = set
+	}
+}
+
+// reaches reports whether piece a can reach piece b (true when unknown).
+func (r *ranger) reaches(a, b int32) bool {
+	if r.reach == nil || int(a) >= r.k || int(b) >= r.k {
+		return true
+	}
+	gb := r.group[b]
+	return r.reach[r.group[a]][gb/64]&(1<<(gb%64)) != 0
+}
+
 // split describes a piece cut in two by removing one forest arc: the nodes
 // of the subtree of child form the virtual piece k.
 type split struct {
@@ -311,7 +512,17 @@ func (r *ranger) search(sources []int32, targets []int32, sp split, exclude int3
 	}
 	want := make(map[int32]bool, len(targets))
 	for _, t := range targets {
-		want[t] = true
+		if sp.child >= 0 || len(sources) != 1 {
+			want[t] = true
+			continue
+		}
+		a, b := sources[0], t
+		if reverse {
+			a, b = b, a
+		}
+		if r.reaches(a, b) {
+			want[t] = true
+		}
 	}
 	left = len(want)
 	for h.Len() > 0 && left > 0 {
@@ -533,7 +744,9 @@ func (r *ranger) routeUses(v int32, e int32) bool {
 }
 
 // splitRange computes the range of a forest lane: removing it cuts its piece
-// in two; the limits are the cheapest routes between the two sides.
+// in two sides; the limits are the cheapest routes between the two sides:
+// an inner edge across the cut (from cover) or a route through other pieces
+// (a search).
 func (r *ranger) splitRange(e int, lr *LaneRange) error {
 	g := r.g
 	_, _, _, rate := g.arc(e)
@@ -542,24 +755,43 @@ func (r *ranger) splitRange(e int, lr *LaneRange) error {
 	if int(g.parentArc[t]) == e {
 		child = t
 	}
+	// Inner edges from the head's side to the tail's, and back.
+	down, downBy := r.leave[child], r.leaveBy[child]
+	up, upBy := r.enter[child], r.enterBy[child]
+	if child == t {
+		down, downBy, up, upBy = up, upBy, down, downBy
+	}
 	sp := split{piece: g.comp[t], child: child}
 	st, sh := r.pieceOf(t, sp), r.pieceOf(h, sp)
-	// Lower limit: the cheapest route from the head's side to the tail's.
-	if err := r.search([]int32{sh}, []int32{st}, sp, int32(e), false); err != nil {
+	best := func(inner int64, innerBy int32, from, to int32) (int64, flow.LaneID, bool, error) {
+		d, by := inner, flow.LaneID(-1)
+		if innerBy >= 0 && int(innerBy) < g.m {
+			by = flow.LaneID(innerBy)
+		}
+		if r.start[sp.piece+1] > r.start[sp.piece] || r.rstart[sp.piece+1] > r.rstart[sp.piece] {
+			if err := r.search([]int32{from}, []int32{to}, sp, int32(e), false); err != nil {
+				return 0, -1, false, err
+			}
+			if x := r.dist[to]; x != unreached && (d == unreached || x < d) {
+				d, by = x, r.firstLane(to)
+				lr.ByRoute = true
+			}
+		}
+		return d, by, d != unreached, nil
+	}
+	d, by, ok, err := best(down, downBy, sh, st)
+	if err != nil {
 		return err
 	}
-	if d := r.dist[st]; d != unreached {
-		lr.Lower, lr.HasLower = rate-d, true
-		lr.LowerBy = r.firstLane(st)
-		lr.ByRoute = r.k > 1
+	if ok {
+		lr.Lower, lr.HasLower, lr.LowerBy = rate-d, true, by
 	}
-	if err := r.search([]int32{st}, []int32{sh}, sp, int32(e), false); err != nil {
+	d, by, ok, err = best(up, upBy, st, sh)
+	if err != nil {
 		return err
 	}
-	if d := r.dist[sh]; d != unreached {
-		lr.Upper, lr.HasUpper = rate+d, true
-		lr.UpperBy = r.firstLane(sh)
-		lr.ByRoute = r.k > 1
+	if ok {
+		lr.Upper, lr.HasUpper, lr.UpperBy = rate+d, true, by
 	}
 	return nil
 }
@@ -677,4 +909,90 @@ func (r *ranger) anchors() []int32 {
 		}
 	}
 	return out
+}
+
+// Route returns the cheapest route through the residual network of the
+// optimal plan y (valid potentials p) that competes with lane e. With more,
+// it runs from the lane's head back to its tail: one more unit on the lane
+// and one unit along this route form the cheapest cycle that uses the lane
+// more (its cost per unit is the rate minus the lower limit). Without more,
+// it runs from the tail to the head: one unit less on the lane and one unit
+// along the route (cost: the upper limit minus the rate). The steps avoid
+// lane e; nil means no such route exists (or the lane cannot move that
+// way). Cost: one search, O(|E| log |V|).
+func Route(n *flow.Network, y []int64, p []int64, e flow.LaneID, more bool) ([]Step, error) {
+	if (more && y[e] >= n.Upper[e]) || (!more && y[e] <= n.Lower[e]) {
+		return nil, nil
+	}
+	f, err := flow.CheckPlan(n, y)
+	if err != nil {
+		return nil, err
+	}
+	g := newGraph(n, y, f)
+	if _, err := g.forest(); err != nil {
+		return nil, err
+	}
+	r := newRanger(g, p)
+	if err := r.buildEdges(); err != nil {
+		return nil, err
+	}
+	t, h := n.Tail[e], n.Head[e]
+	from, to := h, t
+	if !more {
+		from, to = t, h
+	}
+	sp := split{child: -1}
+	if r.isForestArc(int(e)) {
+		child := h
+		if g.parentArc[t] == int32(e) {
+			child = t
+		}
+		sp = split{piece: g.comp[t], child: child}
+	}
+	src, dst := r.pieceOf(from, sp), r.pieceOf(to, sp)
+	// With a split piece the inner edges across the cut also count: add
+	// them to the search as edges of a tiny graph by checking the best one.
+	var innerBest *innerEdge
+	if sp.child >= 0 {
+		for i := range r.inner {
+			ie := &r.inner[i]
+			if r.pieceOf(ie.from, sp) == src && r.pieceOf(ie.to, sp) == dst && (innerBest == nil || ie.w < innerBest.w) {
+				innerBest = ie
+			}
+		}
+	}
+	if err := r.search([]int32{src}, []int32{dst}, sp, int32(e), false); err != nil {
+		return nil, err
+	}
+	if innerBest != nil && (r.dist[dst] == unreached || innerBest.w <= r.dist[dst]) {
+		ie := *innerBest
+		steps := g.treePath(from, ie.from)
+		steps = append(steps, r.edgeStep(ie.arc, ie.from))
+		return append(steps, g.treePath(ie.to, to)...), nil
+	}
+	if src != dst && r.dist[dst] == unreached {
+		return nil, nil
+	}
+	// Walk the predecessor edges back from dst, then join them through the
+	// pieces' forests.
+	var edges []int32
+	for v := dst; v != src; {
+		i := r.pred[v]
+		edges = append(edges, i)
+		v = r.pieceOf(r.from[i], sp)
+	}
+	var steps []Step
+	at := from
+	for k := len(edges) - 1; k >= 0; k-- {
+		i := edges[k]
+		steps = append(steps, g.treePath(at, r.from[i])...)
+		steps = append(steps, g.step(int(r.arcOf[i]), r.fwd[i]))
+		at = r.to[i]
+	}
+	return append(steps, g.treePath(at, to)...), nil
+}
+
+// edgeStep returns the step of arc e leaving node from.
+func (r *ranger) edgeStep(e int32, from int32) Step {
+	return r.g.step(int(e), r.g.tail(int(e)) == from)
 }

@@ -49,6 +49,7 @@ type Document struct {
 	Violations    []Violation `json:"violations"`
 	Cycles        []CycleDoc  `json:"cycles"`
 	Repair        []ChangeDoc `json:"repair"`
+	RangesFor     string      `json:"ranges_for,omitempty"`
 	Lanes         []LaneDoc   `json:"lanes"`
 	Nodes         []NodeDoc   `json:"nodes"`
 	ExtraColumns  []string    `json:"extra_columns"`
@@ -157,6 +158,7 @@ type LaneDoc struct {
 	State       string            `json:"state"`
 	ReducedCost *string           `json:"reduced_cost"`
 	SlackOK     *bool             `json:"slack_ok"`
+	Range       *RangeDoc         `json:"range,omitempty"`
 	Extra       map[string]string `json:"extra,omitempty"`
 }
 
@@ -167,6 +169,27 @@ type NodeDoc struct {
 	Supply    string  `json:"supply"`
 	NetOut    string  `json:"net_out"`
 	Potential *string `json:"potential"`
+	// ShadowPrice is the cost of one more unit demanded here, PriceIfLess
+	// the saving of one unit less (from the ranges; absent without them).
+	ShadowPrice *string `json:"shadow_price,omitempty"`
+	PriceIfLess *string `json:"price_if_less,omitempty"`
+}
+
+// RangeDoc is a lane's rate range in the optimal plan: the plan stays
+// optimal for rates from Lower to Upper (null: no limit). For an unused lane
+// Lower is its break-even rate; for a lane at capacity CapacityValue is the
+// saving of one more unit of capacity. ByRoute says the limit came from a
+// route through the residual network rather than a potential difference.
+// LowerBy and UpperBy name a lane that starts or stops being used past the
+// limit.
+type RangeDoc struct {
+	State         string  `json:"state"`
+	Lower         *string `json:"lower"`
+	Upper         *string `json:"upper"`
+	ByRoute       bool    `json:"by_route"`
+	CapacityValue *string `json:"capacity_value,omitempty"`
+	LowerBy       *string `json:"lower_by,omitempty"`
+	UpperBy       *string `json:"upper_by,omitempty"`
 }
 
 func sp(s string) *string { return &s }
@@ -289,6 +312,43 @@ func Build(a *dual.Audit, opt *dual.Optimum, in Inputs, rounded []flow.Rounding)
 		}
 	}
 	return d, nil
+}
+
+// AddRanges adds the rate ranges and node prices of the optimal plan y.
+// forPlan says which plan they describe ("plan" when the audited plan is
+// optimal, "optimal-plan" otherwise).
+func (d *Document) AddRanges(y []int64, s *dual.Sensitivity, forPlan string) {
+	n := d.net
+	d.RangesFor = forPlan
+	for e := range d.Lanes {
+		lr := s.Lanes[e]
+		rd := &RangeDoc{State: stateName(dual.StateOf(y[e], n.Lower[e], n.Upper[e])), ByRoute: lr.ByRoute}
+		if lr.HasLower {
+			rd.Lower = sp(n.FormatRate(lr.Lower))
+		}
+		if lr.HasUpper {
+			rd.Upper = sp(n.FormatRate(lr.Upper))
+		}
+		if y[e] == n.Upper[e] && n.Lower[e] < n.Upper[e] {
+			rd.CapacityValue = sp(n.FormatRate(lr.CapacityValue))
+		}
+		if lr.LowerBy >= 0 {
+			rd.LowerBy = sp(n.LaneName(lr.LowerBy))
+		}
+		if lr.UpperBy >= 0 {
+			rd.UpperBy = sp(n.LaneName(lr.UpperBy))
+		}
+		d.Lanes[e].Range = rd
+	}
+	for v := range d.Nodes {
+		np := s.Nodes[v]
+		if np.HasUp {
+			d.Nodes[v].ShadowPrice = sp(n.FormatRate(np.Up))
+		}
+		if np.HasDown {
+			d.Nodes[v].PriceIfLess = sp(n.FormatRate(np.Down))
+		}
+	}
 }
 
 // VerdictNetworkInfeasible is the verdict when no plan can meet the demands.

@@ -268,20 +268,74 @@ func writeHuman(w io.Writer, d *Document, opt Options, md bool) error {
 	if rest := len(d.Lanes) - shown; rest > 0 {
 		p.line("... %d more lane(s) not shown%s", rest, opt.MoreHint)
 	}
+	if d.RangesFor != "" {
+		if err := writeRanges(p, d, opt); err != nil {
+			return err
+		}
+	}
 	if opt.Nodes {
 		p.gap()
 		p.head("Nodes")
 		var nrows [][]string
-		for _, nd := range d.Nodes {
-			nrows = append(nrows, []string{nd.ID, nd.Supply, nd.NetOut, deref(nd.Potential, "-")})
+		header := []string{"node", "supply", "net out", "potential"}
+		align := []tw.Align{tw.AlignLeft, tw.AlignRight, tw.AlignRight, tw.AlignRight}
+		if d.RangesFor != "" {
+			header = append(header, "one more unit costs", "one less saves")
+			align = append(align, tw.AlignRight, tw.AlignRight)
 		}
-		if err := p.table([]string{"node", "supply", "net out", "potential"}, nrows, []tw.Align{tw.AlignLeft, tw.AlignRight, tw.AlignRight, tw.AlignRight}); err != nil {
+		for _, nd := range d.Nodes {
+			row := []string{nd.ID, nd.Supply, nd.NetOut, deref(nd.Potential, "-")}
+			if d.RangesFor != "" {
+				row = append(row, deref(nd.ShadowPrice, "cannot"), deref(nd.PriceIfLess, "cannot"))
+			}
+			nrows = append(nrows, row)
+		}
+		if err := p.table(header, nrows, align); err != nil {
 			return err
 		}
 	}
 	p.gap()
 	p.line("%s", d.Caution)
 	return p.err
+}
+
+// writeRanges prints the rate ranges: problem lanes' order is not needed
+// here, so lanes come in input order, cut like the lane table.
+func writeRanges(p *printer, d *Document, opt Options) error {
+	p.gap()
+	p.head("Rate ranges")
+	which := "this plan"
+	if d.RangesFor != "plan" {
+		which = "the optimal plan (the repair above)"
+	}
+	p.line("Rates at which %s stays optimal (break-even rate for unused lanes; * = found by a route through the residual network):", which)
+	var rows [][]string
+	for i, l := range d.Lanes {
+		if opt.Rows > 0 && i == opt.Rows {
+			break
+		}
+		r := l.Range
+		lower, upper := deref(r.Lower, "no limit"), deref(r.Upper, "no limit")
+		if r.ByRoute {
+			lower, upper = star(r.Lower, lower), star(r.Upper, upper)
+		}
+		rows = append(rows, []string{l.ID, l.From, l.To, l.Cost, strings.ReplaceAll(r.State, "-", " "), lower, upper, deref(r.CapacityValue, "")})
+	}
+	if err := p.table([]string{"lane", "from", "to", "rate", "state", "lowest rate", "highest rate", "capacity worth"}, rows,
+		[]tw.Align{tw.AlignLeft, tw.AlignLeft, tw.AlignLeft, tw.AlignRight, tw.AlignLeft, tw.AlignRight, tw.AlignRight, tw.AlignRight}); err != nil {
+		return err
+	}
+	if rest := len(d.Lanes) - len(rows); rest > 0 {
+		p.line("... %d more lane(s) not shown%s", rest, opt.MoreHint)
+	}
+	return nil
+}
+
+func star(v *string, s string) string {
+	if v == nil {
+		return s
+	}
+	return s + "*"
 }
 
 func netLine(d *Document) string {

@@ -69,6 +69,17 @@ func build(t *testing.T, f fixture) *reports.Document {
 	if err != nil {
 		t.Fatal(err)
 	}
+	if o.Status == flow.Optimal {
+		s, err := dual.Ranges(in.Net, o.Flow, o.Potential)
+		if err != nil {
+			t.Fatal(err)
+		}
+		forPlan := "optimal-plan"
+		if a.Verdict == dual.Optimal {
+			forPlan = "plan"
+		}
+		d.AddRanges(o.Flow, s, forPlan)
+	}
 	return d
 }
 

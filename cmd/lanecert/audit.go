@@ -24,11 +24,17 @@ type auditOptions struct {
 	allLanes  bool
 	showNodes bool
 	noSolve   bool
+	ranges    bool
+	noRanges  bool
 	// shownAs, if set, names the inputs in the report instead of the paths.
 	shownAs *reports.Inputs
 }
 
 const defaultRows = 30
+
+// autoRangeLanes is the largest network whose rate ranges an audit computes
+// without being asked (their cost grows faster than the solve's).
+const autoRangeLanes = 20000
 
 func addInputFlags(cmd *cobra.Command, o *auditOptions) {
 	f := cmd.Flags()
@@ -47,6 +53,8 @@ func addOutputFlags(cmd *cobra.Command, o *auditOptions) {
 	f.IntVar(&o.rows, "rows", defaultRows, "lanes shown in the lane table, problem lanes first (0: all)")
 	f.BoolVar(&o.allLanes, "all-lanes", false, "show every lane in the lane table")
 	f.BoolVar(&o.showNodes, "show-nodes", false, "add the per-node table (balance and potential)")
+	f.BoolVar(&o.ranges, "ranges", false, fmt.Sprintf("compute rate ranges and node prices even for networks over %d lanes (they are computed by default below that)", autoRangeLanes))
+	f.BoolVar(&o.noRanges, "no-ranges", false, "skip the rate ranges and node prices")
 	f.BoolVar(&o.noSolve, "no-solve", false, "check the plan and its certificate only: skip solving for the optimal cost, the gap and the repair")
 }
 
@@ -156,9 +164,15 @@ func runAudit(o *auditOptions, s streams) error {
 	var opt *dual.Optimum
 	if !o.noSolve {
 		prog := progressTo(s.err)
-		opt, err = dual.Optimize(in.Net, start, prog.callback())
+		opt, err = dual.Optimize(in.Net, start, prog.callback(in.Net.QtyPlaces+in.Net.RatePlaces))
 		prog.done()
 		if err != nil {
+			return err
+		}
+	}
+	var sens *dual.Sensitivity
+	if opt != nil && opt.Status == flow.Optimal && !o.noRanges && (o.ranges || in.Net.NumLanes() <= autoRangeLanes) {
+		if sens, err = dual.Ranges(in.Net, opt.Flow, opt.Potential); err != nil {
 			return err
 		}
 	}
@@ -170,6 +184,13 @@ func runAudit(o *auditOptions, s streams) error {
 	doc, err := reports.Build(a, opt, names, in.Plan.Rounded)
 	if err != nil {
 		return err
+	}
+	if sens != nil {
+		forPlan := "optimal-plan"
+		if a.Verdict == dual.Optimal {
+			forPlan = "plan"
+		}
+		doc.AddRanges(opt.Flow, sens, forPlan)
 	}
 	ropt := reports.Options{Rows: o.rows, MoreHint: " (--all-lanes shows them)", Nodes: o.showNodes}
 	write := func(w io.Writer) error { return reports.Write(w, doc, format, ropt) }

@@ -3,11 +3,14 @@ package main
 import (
 	"bytes"
 	"encoding/json"
+	"fmt"
 	"os"
 	"path/filepath"
 	"reflect"
 	"strings"
 	"testing"
+
+	"lanecert/flow"
 )
 
 func runCLI(t *testing.T, args ...string) (exitCode, string, string) {
@@ -227,5 +230,49 @@ func TestSolveStatuses(t *testing.T) {
 	code, _, errText = runCLI(t, "solve", unbounded)
 	if code != exitNotOptimal || !strings.Contains(errText, "without limit") {
 		t.Fatalf("unbounded: exit %d, stderr %q", code, errText)
+	}
+}
+
+// TestWhy: the explanation's cycle, summed by hand from the rates it
+// lists, equals the lane's rate minus its break-even rate.
+func TestWhy(t *testing.T) {
+	dir := t.TempDir()
+	runCLI(t, "demo", "--write", dir)
+	lanes, nodes := filepath.Join(dir, "lanes.csv"), filepath.Join(dir, "nodes.csv")
+	code, out, errText := runCLI(t, "why", lanes, "--nodes", nodes, "L09")
+	if code != exitOptimal {
+		t.Fatalf("exit %d: %s", code, errText)
+	}
+	var breakEven, change string
+	var sum float64 // only to cross-check the printed figures, not a verdict
+	for _, line := range strings.Split(out, "\n") {
+		if v, ok := strings.CutPrefix(line, "Break-even rate: "); ok {
+			breakEven = strings.TrimSuffix(strings.Fields(v)[0], ".")
+		}
+		if v, ok := strings.CutPrefix(line, "  cost change per unit: "); ok && change == "" {
+			change = strings.Fields(v)[0]
+		}
+		if strings.HasPrefix(line, "  +1 on lane ") || strings.HasPrefix(line, "  -1 on lane ") {
+			f := strings.Fields(line)
+			var r float64
+			fmt.Sscan(f[len(f)-1], &r)
+			if f[0] == "-1" {
+				r = -r
+			}
+			sum += r
+		}
+	}
+	// L09's rate is 19.40 (demo/lanes.csv); its break-even plus the cost
+	// change of one more unit must give it back.
+	be, _ := flow.ParseDecimal(breakEven)
+	ch, _ := flow.ParseDecimal(change)
+	if be.Mant+ch.Mant != 1940 || be.Places != 2 {
+		t.Fatalf("break-even %q + change %q != 19.40\n%s", breakEven, change, out)
+	}
+	if fmt.Sprintf("%.2f", sum) != change {
+		t.Fatalf("listed rates sum to %.2f, printed change %s", sum, change)
+	}
+	if code, _, _ := runCLI(t, "why", lanes, "--nodes", nodes, "L99"); code != exitBadInput {
+		t.Fatalf("unknown lane: exit %d", code)
 	}
 }

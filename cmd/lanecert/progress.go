@@ -4,6 +4,8 @@ import (
 	"fmt"
 	"io"
 	"os"
+
+	"lanecert/flow"
 )
 
 // progress reports a long solve on a terminal.
@@ -26,14 +28,15 @@ func progressTo(w io.Writer) *progress {
 	return &progress{f: f}
 }
 
-// callback returns the solver's pivot callback (nil when p is nil).
-func (p *progress) callback() func(int64) {
+// callback returns the solver's progress callback (nil when p is nil);
+// places is the network's cost scale.
+func (p *progress) callback(places int) func(int64, flow.Wide) {
 	if p == nil {
 		return nil
 	}
-	return func(pivots int64) {
+	return func(pivots int64, cost flow.Wide) {
 		p.written = true
-		fmt.Fprintf(p.f, "\rlanecert: solving, %d pivots so far", pivots)
+		fmt.Fprintf(p.f, "\rlanecert: solving, %d pivots, cost %s", pivots, cost.Format(places))
 	}
 }
 
