@@ -57,8 +57,8 @@ func ReadDIMACS(r io.Reader, file string) (*Network, error) {
 			}
 			nn, err1 := strconv.Atoi(string(f[2].text))
 			na, err2 := strconv.Atoi(string(f[3].text))
-			if err1 != nil || nn < 0 || nn > 1<<30 {
-				bad(2, "NODES", fmt.Errorf("%w: want a node count", ErrSyntax))
+			if err1 != nil || nn < 0 || nn > maxDIMACSNodes {
+				bad(2, "NODES", fmt.Errorf("%w: want a node count from 0 to %d", ErrSyntax, maxDIMACSNodes))
 				return
 			}
 			if err2 != nil || na < 0 || na > 1<<30 {
@@ -353,3 +353,8 @@ func eachLine(data []byte, fn func(line int, text []byte)) error {
 	}
 	return nil
 }
+
+// maxDIMACSNodes bounds the node count a DIMACS problem line may announce:
+// every announced node is stored (with its name), so a short file must not
+// be able to demand gigabytes.
+const maxDIMACSNodes = 1 << 24

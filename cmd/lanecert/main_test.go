@@ -276,3 +276,34 @@ func TestWhy(t *testing.T) {
 		t.Fatalf("unknown lane: exit %d", code)
 	}
 }
+
+func TestBids(t *testing.T) {
+	dir := t.TempDir()
+	runCLI(t, "demo", "--write", dir)
+	bids := filepath.Join(dir, "bids.csv")
+	os.WriteFile(bids, []byte("bid,from,to,rate,max\nQ1,Plant Corvel,DC Quillmoor,6.50,120\nQ2,DC Brightmere,Moorgate Deli,8.35,\n"), 0o644)
+	lanes, nodes := filepath.Join(dir, "lanes.csv"), filepath.Join(dir, "nodes.csv")
+	code, out, errText := runCLI(t, "bids", lanes, "--nodes", nodes, bids, "--format", "json")
+	if code != exitOptimal {
+		t.Fatalf("exit %d: %s", code, errText)
+	}
+	var doc struct {
+		Bids []struct {
+			ID         string  `json:"id"`
+			Used       bool    `json:"used"`
+			SameAsLane *string `json:"same_as_lane"`
+		} `json:"bids"`
+	}
+	if err := json.Unmarshal([]byte(out), &doc); err != nil {
+		t.Fatal(err)
+	}
+	// Q2 repeats lane L29 of the demo exactly.
+	if len(doc.Bids) != 2 || doc.Bids[1].SameAsLane == nil || *doc.Bids[1].SameAsLane != "L29" {
+		t.Fatalf("bids %+v", doc.Bids)
+	}
+	os.WriteFile(bids, []byte("bid,from,to,rate\nQ1,Plant Nowhere,DC Quillmoor,6.50\n"), 0o644)
+	code, _, errText = runCLI(t, "bids", lanes, "--nodes", nodes, bids)
+	if code != exitBadInput || !strings.Contains(errText, "bids.csv:2:4: from") {
+		t.Fatalf("exit %d, stderr %q", code, errText)
+	}
+}

@@ -1,0 +1,101 @@
+package main
+
+import (
+	"errors"
+	"fmt"
+	"io"
+	"os"
+
+	"github.com/spf13/cobra"
+
+	"lanecert/dual"
+	"lanecert/flow"
+	"lanecert/reports"
+)
+
+type bidsOptions struct {
+	in     auditOptions
+	bids   string
+	format string
+	output string
+}
+
+func newBidsCmd(s streams, runF func(*bidsOptions) error) *cobra.Command {
+	o := &bidsOptions{}
+	cmd := &cobra.Command{
+		Use:   "bids NETWORK [PLAN] BIDS.csv",
+		Short: "Price candidate lanes (carrier bids): would each be used, and what would it save",
+		Long: `Price a file of candidate lanes not yet in the network (for example new
+carrier quotes): columns from, to, rate (or cost), and optionally bid (or
+lane, id), min and max. For each: its break-even rate, whether it would be
+used, the saving per unit, and the exact total saving if it alone were
+added (re-solved from the current optimal plan). Then the best set of bids
+taken together and its saving.`,
+		Args: cobra.RangeArgs(2, 3),
+		RunE: func(cmd *cobra.Command, args []string) error {
+			o.bids = args[len(args)-1]
+			if err := o.in.positional(args[:len(args)-1]); err != nil {
+				return err
+			}
+			if runF != nil {
+				return runF(o)
+			}
+			return runBids(o, s)
+		},
+	}
+	addInputFlags(cmd, &o.in)
+	cmd.Flags().StringVar(&o.format, "format", "table", "output format: table, json, csv or markdown")
+	cmd.Flags().StringVarP(&o.output, "output", "o", "", "write the report to this file (atomically) instead of standard output")
+	return cmd
+}
+
+func runBids(o *bidsOptions, s streams) error {
+	if err := o.in.prepare(); err != nil {
+		return err
+	}
+	format, err := reports.ParseFormat(o.format)
+	if err != nil {
+		return err
+	}
+	in, err := flow.LoadFiles(o.in.files)
+	if err != nil {
+		return err
+	}
+	n := in.Net
+	fh, err := os.Open(o.bids)
+	if err != nil {
+		return err
+	}
+	cands, err := flow.ReadCandidates(fh, o.bids, n, o.in.files.Table)
+	fh.Close()
+	if err != nil {
+		return err
+	}
+	var start []int64
+	if in.Plan != nil {
+		if f, err := flow.CheckPlan(n, in.Plan.Flow); err == nil && f.Feasible() {
+			start = in.Plan.Flow
+		}
+	}
+	opt, err := dual.Optimize(n, start, nil)
+	if err != nil {
+		return err
+	}
+	switch opt.Status {
+	case flow.Infeasible:
+		fmt.Fprintf(s.err, "lanecert: the network is infeasible: at least %s units cannot be delivered\n", n.FormatQty(opt.Shortfall))
+		return &statusError{exitNetworkInfeasible}
+	case flow.Unbounded:
+		return errors.New("no optimum: a cycle of lanes without capacity lowers the cost without limit")
+	}
+	res, set, err := dual.EvaluateBids(n, opt.Flow, opt.Potential, opt.Cost, cands)
+	if err != nil {
+		return err
+	}
+	doc := reports.BuildBids(n, opt.Cost, cands, res, set)
+	write := func(w io.Writer) error { return reports.WriteBids(w, doc, format) }
+	if o.output != "" {
+		return reports.WriteAtomic(o.output, []string{o.in.files.Network, o.in.files.Nodes, o.in.files.Plan, o.bids}, write)
+	}
+	return write(s.out)
+}

@@ -1,0 +1,123 @@
+package dual
+
+import (
+	"fmt"
+
+	"lanecert/flow"
+)
+
+// BidResult is what adding one candidate lane alone would do.
+type BidResult struct {
+	// BreakEven is the rate at or below which the lane would be used
+	// (HasBreakEven false: at no rate). SavingPerUnit = BreakEven - rate
+	// when positive.
+	BreakEven     int64
+	HasBreakEven  bool
+	SavingPerUnit int64
+	// Used reports whether the optimum with this lane added uses it; Flow is
+	// its quantity there and Saving the total saving (cost scale, >= 0 unless
+	// a positive minimum forces a dearer plan).
+	Used   bool
+	Flow   int64
+	Saving flow.Wide
+	// Feasible is false when a positive minimum on the lane makes the network
+	// infeasible.
+	Feasible bool
+}
+
+// BidSet is the best set of candidates taken together: the optimum with all
+// of them added. Flows[i] is candidate i's quantity (0: not in the set).
+type BidSet struct {
+	Flows    []int64
+	Saving   flow.Wide
+	Feasible bool
+}
+
+// EvaluateBids prices candidate lanes against the optimal plan y of n
+// (valid potentials p, cost cost): for each, its break-even rate (exact, as
+// for LaneRange) and the exact saving if it alone were added, re-solved by
+// the network simplex starting from y; then the best set of all of them.
+// Cost: one search per candidate for the break-even rate, one warm-started
+// solve per candidate, and one for the set.
+func EvaluateBids(n *flow.Network, y, p []int64, cost flow.Wide, cands []flow.Candidate) ([]BidResult, *BidSet, error) {
+	f, err := flow.CheckPlan(n, y)
+	if err != nil {
+		return nil, nil, err
+	}
+	g := newGraph(n, y, f)
+	if _, err := g.forest(); err != nil {
+		return nil, nil, err
+	}
+	r := newRanger(g, p)
+	if err := r.buildEdges(); err != nil {
+		return nil, nil, err
+	}
+	out := make([]BidResult, len(cands))
+	for i, c := range cands {
+		br := &out[i]
+		// The lane would carry more when the route from its head back to
+		// its tail costs less than its rate: break-even = -cost of route.
+		src, dst := g.comp[c.Head], g.comp[c.Tail]
+		d := int64(0)
+		reached := true
+		if src != dst {
+			if err := r.search([]int32{src}, []int32{dst}, split{child: -1}, -1, false); err != nil {
+				return nil, nil, err
+			}
+			d, reached = r.dist[dst], r.dist[dst] != unreached
+		}
+		if reached {
+			be, err := flow.SubChecked(r.p[c.Head], r.p[c.Tail])
+			if err == nil {
+				be, err = flow.SubChecked(be, d)
+			}
+			if err != nil {
+				return nil, nil, fmt.Errorf("dual: break-even rate %w", err)
+			}
+			br.BreakEven, br.HasBreakEven = be, true
+			if be > c.Rate {
+				br.SavingPerUnit = be - c.Rate
+			}
+		}
+		alone, err := solveWith(n, y, []flow.Candidate{c})
+		if err != nil {
+			return nil, nil, err
+		}
+		br.Feasible = alone.Status == flow.Optimal
+		if br.Feasible {
+			br.Flow = alone.Flow[n.NumLanes()]
+			br.Used = br.Flow > 0
+			if br.Saving, err = cost.Sub(alone.Cost); err != nil {
+				return nil, nil, fmt.Errorf("dual: saving %w", err)
+			}
+		}
+	}
+	set := &BidSet{Flows: make([]int64, len(cands))}
+	all, err := solveWith(n, y, cands)
+	if err != nil {
+		return nil, nil, err
+	}
+	set.Feasible = all.Status == flow.Optimal
+	if set.Feasible {
+		copy(set.Flows, all.Flow[n.NumLanes():])
+		if set.Saving, err = cost.Sub(all.Cost); err != nil {
+			return nil, nil, fmt.Errorf("dual: saving %w", err)
+		}
+	}
+	return out, set, nil
+}
+
+// solveWith solves n with the candidates added, starting from y (and 0 on
+// the new lanes, when their minimums allow).
+func solveWith(n *flow.Network, y []int64, cands []flow.Candidate) (*flow.Solution, error) {
+	ext := n.WithLanes(cands)
+	start := make([]int64, ext.NumLanes())
+	copy(start, y)
+	for _, c := range cands {
+		if c.Lower > 0 {
+			start = nil // not feasible as it stands: solve from scratch
+			break
+		}
+	}
+	return flow.Solve(ext, flow.SolveOptions{Start: start})
+}

@@ -1,0 +1,91 @@
+package dual_test
+
+import (
+	"math/rand/v2"
+	"testing"
+
+	"lanecert/dual"
+	"lanecert/flow"
+	"lanecert/internal/oracle"
+	"lanecert/internal/randnet"
+)
+
+// TestBidsAgainstOracle adds random candidate lanes to random networks and
+// compares each bid's saving alone, and the best set's, with the LP
+// oracle's optimum of the extended network; a bid's break-even rate must
+// be where using it starts to pay.
+func TestBidsAgainstOracle(t *testing.T) {
+	rng := rand.New(rand.NewPCG(5, 5))
+	used := 0
+	for i := 0; i < 300; i++ {
+		o := randnet.RandomOptions(rng)
+		o.NegativeRates, o.Infeasible = false, false
+		n := randnet.Network(rng, o)
+		opt, err := dual.Optimize(n, nil, nil)
+		if err != nil {
+			t.Fatal(err)
+		}
+		if opt.Status != flow.Optimal || n.NumNodes() < 2 {
+			continue
+		}
+		var cands []flow.Candidate
+		for k := 0; k < 3; k++ {
+			c := flow.Candidate{ID: "c", Tail: flow.NodeID(rng.IntN(n.NumNodes())), Head: flow.NodeID(rng.IntN(n.NumNodes())),
+				Rate: rng.Int64N(5 * max(o.MaxRate, 1)), Upper: flow.NoLimit, Same: -1}
+			if rng.IntN(2) == 0 {
+				c.Upper = 1 + rng.Int64N(50)
+			}
+			cands = append(cands, c)
+		}
+		res, set, err := dual.EvaluateBids(n, opt.Flow, opt.Potential, opt.Cost, cands)
+		if err != nil {
+			t.Fatal(err)
+		}
+		places := n.QtyPlaces + n.RatePlaces
+		for k, c := range cands {
+			lp, err := oracle.MinCost(n.WithLanes([]flow.Candidate{c}))
+			if err != nil || lp.Status != oracle.Optimal {
+				t.Fatalf("oracle: %v %v", lp.Status, err)
+			}
+			want, _ := opt.Cost.Sub(res[k].Saving)
+			if !oracle.SameCost(want, places, lp) {
+				t.Fatalf("case %d bid %d: saving %s, oracle optimum %v from %s", i, k, n.FormatCost(res[k].Saving), lp.CostScaled, n.FormatCost(opt.Cost))
+			}
+			if res[k].Used {
+				used++
+			}
+			// Break-even: at that rate the bid cannot save; one unit below
+			// it, it must (when it has room).
+			if res[k].HasBreakEven {
+				at := c
+				at.Rate = res[k].BreakEven
+				lp, _ := oracle.MinCost(n.WithLanes([]flow.Candidate{at}))
+				if !oracle.SameCost(opt.Cost, places, lp) {
+					t.Fatalf("case %d bid %d: saves at its break-even rate %d", i, k, at.Rate)
+				}
+				// Far enough below for the oracle's float tolerance to see
+				// the saving on a lane of small capacity.
+				at.Rate -= max(1, abs(at.Rate)/2)
+				lp, _ = oracle.MinCost(n.WithLanes([]flow.Candidate{at}))
+				if lp.Status == oracle.Optimal && oracle.SameCost(opt.Cost, places, lp) && at.Upper != 0 && c.Tail != c.Head {
+					t.Fatalf("case %d bid %d: no saving below its break-even rate %d (cand %+v, places %d/%d, supply %v, oracle %v)", i, k, res[k].BreakEven, c, n.QtyPlaces, n.RatePlaces, n.Supply, lp.CostScaled)
+				}
+			}
+		}
+		lp, _ := oracle.MinCost(n.WithLanes(cands))
+		want, _ := opt.Cost.Sub(set.Saving)
+		if !oracle.SameCost(want, places, lp) {
+			t.Fatalf("case %d: set saving %s, oracle %v", i, n.FormatCost(set.Saving), lp.CostScaled)
+		}
+	}
+	if used < 30 {
+		t.Errorf("only %d bids used: the test no longer covers useful bids", used)
+	}
+}
+
+func abs(x int64) int64 {
+	if x < 0 {
+		return -x
+	}
+	return x
+}
