@@ -13,6 +13,9 @@ type Candidate struct {
 	Tail, Head   NodeID
 	Rate         int64
 	Lower, Upper int64 // Upper == NoLimit: no capacity
+	// Fixed is the one-off cost of opening the lane (cost scale:
+	// QtyPlaces+RatePlaces), 0 when none.
+	Fixed int64
 	// Same names an existing lane with the same ends, bounds and rate, or
 	// is -1.
 	Same LaneID
@@ -20,11 +23,13 @@ type Candidate struct {
 	Line int
 }
 
-var candidateColumns = []string{"lane", "from", "to", "cost", "min", "max"}
+var candidateColumns = []string{"lane", "from", "to", "cost", "min", "max", "fixed"}
 
 // ReadCandidates reads a table of candidate lanes for network n: from, to,
 // cost (the offered rate, also "rate"), and optionally lane (an id, also
-// "id" or "bid"; default "bid N" for data row N), min and max. Nodes must
+// "id" or "bid"; default "bid N" for data row N), min, max and fixed (a
+// one-off cost of opening the lane, at most QtyPlaces+RatePlaces places,
+// applied after any rescaling of the rates). Nodes must
 // exist in n; rates must not be negative; ids must be unique. A rate with
 // more decimal places than n's rates rescales n's rates (n is changed); a
 // quantity with more places than n's quantities is an error. Errors are
@@ -54,6 +59,7 @@ func ReadCandidates(rd io.Reader, file string, n *Network, opt TableOptions) ([]
 		c      Candidate
 		rate   Decimal
 		lo, hi Decimal
+		fixed  Decimal
 	}
 	var rows []raw
 	err = t.each(func(r *row) {
@@ -122,10 +128,15 @@ func ReadCandidates(rd io.Reader, file string, n *Network, opt TableOptions) ([]
 				ok = false
 			}
 		}
-		if !ok || !okR || !okL || !okH {
+		fixed, okF := r.decimal("fixed", true, Decimal{})
+		if okF && fixed.Mant < 0 {
+			r.fail("fixed", fmt.Errorf("fixed cost %w", ErrNegative))
+			okF = false
+		}
+		if !ok || !okR || !okL || !okH || !okF {
 			return
 		}
-		rows = append(rows, raw{c: c, rate: rate, lo: lo, hi: hi})
+		rows = append(rows, raw{c: c, rate: rate, lo: lo, hi: hi, fixed: fixed})
 	})
 	if err != nil {
 		return nil, err
@@ -160,6 +171,14 @@ func ReadCandidates(rd io.Reader, file string, n *Network, opt TableOptions) ([]
 			if c.Upper, err = rw.hi.Scaled(n.QtyPlaces); err != nil {
 				return nil, &ParseError{File: file, Line: c.Line, Field: "max", Text: rw.hi.String(), Err: err}
 			}
+		}
+		fp := n.QtyPlaces + n.RatePlaces
+		if int(rw.fixed.Places) > fp {
+			return nil, &ParseError{File: file, Line: c.Line, Field: "fixed", Text: rw.fixed.String(),
+				Err: fmt.Errorf("%w: %d decimal places, costs here use %d", ErrSyntax, rw.fixed.Places, fp)}
+		}
+		if c.Fixed, err = rw.fixed.Scaled(fp); err != nil {
+			return nil, &ParseError{File: file, Line: c.Line, Field: "fixed", Text: rw.fixed.String(), Err: err}
 		}
 		for _, a := range lk.pair(c.Tail, c.Head) {
 			if n.Rate[a] == c.Rate && n.Lower[a] == c.Lower && n.Upper[a] == c.Upper {

@@ -1,0 +1,158 @@
+package dual_test
+
+import (
+	"math"
+	"math/rand/v2"
+	"testing"
+
+	"lanecert/dual"
+	"lanecert/flow"
+	"lanecert/internal/certcheck"
+	"lanecert/internal/oracle"
+	"lanecert/internal/randnet"
+)
+
+// bruteTotal is the best total (LP optimum plus fixed costs of the lanes
+// it uses) over every subset of at most two candidates, by the LP oracle;
+// +Inf when none is feasible. Floats only in this comparison.
+func bruteTotal(t *testing.T, n *flow.Network, cs []flow.Candidate) float64 {
+	t.Helper()
+	best := math.Inf(1)
+	scale := math.Pow10(n.QtyPlaces + n.RatePlaces)
+	eval := func(set []int) {
+		sub := make([]flow.Candidate, len(set))
+		for i, k := range set {
+			sub[i] = cs[k]
+		}
+		res, err := oracle.MinCost(n.WithLanes(sub))
+		if err != nil {
+			t.Fatal(err)
+		}
+		if res.Status != oracle.Optimal {
+			return
+		}
+		total := res.CostScaled
+		for i, k := range set {
+			if res.Flow[n.NumLanes()+i] > 0.5 {
+				total += float64(cs[k].Fixed)
+			}
+		}
+		best = math.Min(best, total/scale)
+	}
+	eval(nil)
+	for a := range cs {
+		eval([]int{a})
+		for b := a + 1; b < len(cs); b++ {
+			eval([]int{a, b})
+		}
+	}
+	return best
+}
+
+// TestExtendAgainstBruteForce: on small networks (infeasible ones among
+// them) the chosen lanes give a feasible plan costing what Extend says, no
+// single lane or pair does better (brute force with the LP oracle), and
+// the lower bound holds.
+func TestExtendAgainstBruteForce(t *testing.T) {
+	rng := rand.New(rand.NewPCG(3, 9))
+	fixedCases, madeFeasible := 0, 0
+	for i := 0; i < 150; i++ {
+		o := randnet.RandomOptions(rng)
+		o.NegativeRates = false
+		o.Infeasible = false
+		n := randnet.Network(rng, o)
+		if n.NumNodes() < 2 {
+			continue
+		}
+		if i%2 == 0 {
+			// Squeeze capacities so that demand often cannot be met, but
+			// new lanes can restore it.
+			for e := range n.Upper {
+				if rng.IntN(2) == 0 {
+					u := n.Upper[e]
+					if u == flow.NoLimit {
+						u = 40
+					}
+					n.Upper[e] = max(n.Lower[e], u/4)
+				}
+			}
+		}
+		var cs []flow.Candidate
+		withFixed := i%3 != 0
+		var origins, dests []flow.NodeID
+		for v, b := range n.Supply {
+			if b > 0 {
+				origins = append(origins, flow.NodeID(v))
+			} else if b < 0 {
+				dests = append(dests, flow.NodeID(v))
+			}
+		}
+		for k := 0; k < 4; k++ {
+			c := flow.Candidate{ID: "c", Tail: flow.NodeID(rng.IntN(n.NumNodes())), Head: flow.NodeID(rng.IntN(n.NumNodes())),
+				Rate: rng.Int64N(2 * max(o.MaxRate, 1)), Upper: flow.NoLimit, Same: -1}
+			if k%2 == 1 && len(origins) > 0 && len(dests) > 0 {
+				// A lane from an origin straight to a destination.
+				c.Tail, c.Head = origins[rng.IntN(len(origins))], dests[rng.IntN(len(dests))]
+			}
+			if rng.IntN(2) == 0 {
+				c.Upper = 1 + rng.Int64N(200)
+			}
+			if withFixed {
+				c.Fixed = rng.Int64N(1000)
+			}
+			cs = append(cs, c)
+		}
+		x, err := dual.Extend(n, cs, dual.ExtendOptions{})
+		if err != nil {
+			t.Fatalf("case %d: %v", i, err)
+		}
+		want := bruteTotal(t, n, cs)
+		scale := math.Pow10(n.QtyPlaces + n.RatePlaces)
+		if !x.Feasible {
+			if !math.IsInf(want, 1) {
+				t.Fatalf("case %d: no extension found, brute force finds %v", i, want)
+			}
+			continue
+		}
+		if !x.WasFeasible {
+			madeFeasible++
+		}
+		if withFixed {
+			fixedCases++
+		}
+		// The plan is feasible on the network with the chosen lanes and
+		// costs what is claimed.
+		sub := make([]flow.Candidate, len(x.Chosen))
+		for i, k := range x.Chosen {
+			sub[i] = cs[k]
+		}
+		ext := n.WithLanes(sub)
+		plan := make([]int64, ext.NumLanes())
+		copy(plan, x.Plan[:n.NumLanes()])
+		copy(plan[n.NumLanes():], x.Flows)
+		if err := certcheck.Feasible(ext, plan); err != nil {
+			t.Fatalf("case %d: extended plan infeasible: %v", i, err)
+		}
+		total, _ := dual.Cost(ext, plan)
+		for _, k := range x.Chosen {
+			total, _ = total.Add(flow.WideFrom(cs[k].Fixed))
+		}
+		if total.Cmp(x.Cost) != 0 {
+			t.Fatalf("case %d: cost %s, plan and fixed costs give %s", i, n.FormatCost(x.Cost), n.FormatCost(total))
+		}
+		got := float64(x.Cost.Big().Int64()) / scale
+		if got > want+1e-6*math.Max(1, math.Abs(want)) {
+			t.Fatalf("case %d: Extend total %v, a single lane or pair gives %v", i, got, want)
+		}
+		if !withFixed && math.Abs(got-want) > 1e-6*math.Max(1, math.Abs(want)) && got > want {
+			t.Fatalf("case %d: without fixed costs the answer must be exact: %v vs %v", i, got, want)
+		}
+		if x.HasBound && x.Bound.Cmp(x.Cost) > 0 {
+			t.Fatalf("case %d: lower bound %s above the answer %s", i, n.FormatCost(x.Bound), n.FormatCost(x.Cost))
+		}
+	}
+	t.Logf("%d cases with fixed costs, %d made feasible", fixedCases, madeFeasible)
+	if fixedCases < 30 || madeFeasible < 10 {
+		t.Errorf("coverage: %d cases with fixed costs, %d made feasible", fixedCases, madeFeasible)
+	}
+}
