@@ -18,6 +18,8 @@ type Inputs struct {
 	Plan    string `json:"plan"`
 	// Tolerance is the rounding tolerance given for the plan, "" for none.
 	Tolerance string `json:"tolerance,omitempty"`
+	// ShortfallPrice is the price per unit of unmet demand, "" for none.
+	ShortfallPrice string `json:"shortfall_price,omitempty"`
 }
 
 // Document is an audit as a report: the JSON document, and the source of
@@ -36,6 +38,8 @@ type Document struct {
 	UniqueOptimum *bool       `json:"unique_optimum"`
 	Unbounded     bool        `json:"unbounded"`
 	Shortfall     *string     `json:"shortfall"`
+	Cut           *CutDoc     `json:"cut"`
+	Unmet         []UnmetDoc  `json:"unmet"`
 	Solver        *SolverDoc  `json:"solver"`
 	DualObjective *string     `json:"dual_objective"`
 	DualTerms     *DualTerms  `json:"dual_terms"`
@@ -312,6 +316,29 @@ func Build(a *dual.Audit, opt *dual.Optimum, in Inputs, rounded []flow.Rounding)
 		}
 	}
 	return d, nil
+}
+
+// UnmetDoc is demand left unmet at a node under a shortfall price, and
+// what it costs.
+type UnmetDoc struct {
+	Node  string `json:"node"`
+	Units string `json:"units"`
+	Cost  string `json:"cost"`
+}
+
+// AddCut adds the proof that the network cannot meet its demands.
+func (d *Document) AddCut(c *flow.Cut) { d.Cut = BuildCut(d.net, c) }
+
+// AddUnmet lists the demand left unmet: the flow on the lanes after the
+// first orig lanes (the shortfall lanes of flow.WithShortfall), per
+// destination.
+func (d *Document) AddUnmet(x []int64, orig int) {
+	n := d.net
+	for e := orig; e < n.NumLanes(); e++ {
+		if x[e] > 0 {
+			d.Unmet = append(d.Unmet, UnmetDoc{Node: n.Nodes[n.Head[e]], Units: n.FormatQty(x[e]), Cost: n.FormatCost(flow.MulWide(n.Rate[e], x[e]))})
+		}
+	}
 }
 
 // AddRanges adds the rate ranges and node prices of the optimal plan y.

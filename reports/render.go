@@ -170,6 +170,18 @@ func writeHuman(w io.Writer, d *Document, opt Options, md bool) error {
 	switch {
 	case d.Shortfall != nil:
 		p.kv("Shortfall", fmt.Sprintf("at least %s units cannot be delivered by any plan", *d.Shortfall))
+		if c := d.Cut; c != nil {
+			p.kv("Proof", fmt.Sprintf("the region %s needs %s more units than it holds, but at most %s can reach it", joinAnd(c.Nodes), c.Demand, c.Reach))
+			if len(c.FullLanes) > 0 {
+				p.kv("Lanes into it", joinAnd(c.FullLanes)+" (full in every plan)")
+			}
+			if len(c.OutLanes) > 0 {
+				p.kv("Minimums out", joinAnd(c.OutLanes))
+			}
+			if c.KeptSupply {
+				p.kv("Note", "the region also counts the supply origins may keep: lane minimums push more into it than its demand can use")
+			}
+		}
 	case d.Unbounded:
 		p.kv("Optimal cost", "none: a cycle of lanes without capacity lowers the cost without limit")
 	case d.OptimalCost != nil:
@@ -209,6 +221,13 @@ func writeHuman(w io.Writer, d *Document, opt Options, md bool) error {
 			parts = append(parts, fmt.Sprintf("%s keeps %s", k.Node, k.Quantity))
 		}
 		p.kv("Kept at origin", fmt.Sprintf("%s in all: %s", d.Totals.Kept, strings.Join(parts, "; ")))
+	}
+	if len(d.Unmet) > 0 {
+		var parts []string
+		for _, u := range d.Unmet {
+			parts = append(parts, fmt.Sprintf("%s %s (cost %s)", u.Node, u.Units, u.Cost))
+		}
+		p.kv("Unmet demand", fmt.Sprintf("at the shortfall price %s: %s", d.Inputs.ShortfallPrice, strings.Join(parts, "; ")))
 	}
 	if d.Inputs.Tolerance != "" {
 		p.kv("Tolerance", fmt.Sprintf("%s: %d plan quantities rounded", d.Inputs.Tolerance, len(d.Rounded)))

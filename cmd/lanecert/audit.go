@@ -26,6 +26,7 @@ type auditOptions struct {
 	noSolve   bool
 	ranges    bool
 	noRanges  bool
+	shortfall string
 	// shownAs, if set, names the inputs in the report instead of the paths.
 	shownAs *reports.Inputs
 }
@@ -55,6 +56,7 @@ func addOutputFlags(cmd *cobra.Command, o *auditOptions) {
 	f.BoolVar(&o.showNodes, "show-nodes", false, "add the per-node table (balance and potential)")
 	f.BoolVar(&o.ranges, "ranges", false, fmt.Sprintf("compute rate ranges and node prices even for networks over %d lanes (they are computed by default below that)", autoRangeLanes))
 	f.BoolVar(&o.noRanges, "no-ranges", false, "skip the rate ranges and node prices")
+	f.StringVar(&o.shortfall, "shortfall-price", "", "allow demand to go unmet at this price per unit; the audit then reports unmet units per node and judges the plan with them priced")
 	f.BoolVar(&o.noSolve, "no-solve", false, "check the plan and its certificate only: skip solving for the optimal cost, the gap and the repair")
 }
 
@@ -153,6 +155,12 @@ func runAudit(o *auditOptions, s streams) error {
 	if in.Plan == nil {
 		return errors.New("no plan: the lane table has no flow column; give one with --plan")
 	}
+	orig := in.Net.NumLanes()
+	if o.shortfall != "" {
+		if err := withShortfall(in, o.shortfall); err != nil {
+			return err
+		}
+	}
 	a, err := dual.Check(in.Net, in.Plan.Flow)
 	if err != nil {
 		return err
@@ -181,9 +189,22 @@ func runAudit(o *auditOptions, s streams) error {
 		names = *o.shownAs
 	}
 	names.Tolerance = o.tolerance
+	names.ShortfallPrice = o.shortfall
 	doc, err := reports.Build(a, opt, names, in.Plan.Rounded)
 	if err != nil {
 		return err
+	}
+	if o.shortfall != "" {
+		doc.AddUnmet(in.Plan.Flow, orig)
+	}
+	if opt != nil && opt.Status == flow.Infeasible {
+		cut, err := flow.FindCut(in.Net)
+		if err != nil {
+			return err
+		}
+		if cut != nil {
+			doc.AddCut(cut)
+		}
 	}
 	if sens != nil {
 		forPlan := "optimal-plan"
@@ -215,4 +236,29 @@ func verdictStatus(v string) error {
 		return &statusError{exitNetworkInfeasible}
 	}
 	return &statusError{exitPlanInfeasible}
+}
+
+// withShortfall replaces the loaded network and plan by their versions with
+// priced unmet demand (flow.WithShortfall).
+func withShortfall(in *flow.Loaded, price string) error {
+	d, err := flow.ParseDecimal(price)
+	if err != nil || d.Mant < 0 {
+		return fmt.Errorf("--shortfall-price %q: want a non-negative decimal", price)
+	}
+	if int(d.Places) > in.Net.RatePlaces {
+		if err := in.Net.RescaleRate(int(d.Places) - in.Net.RatePlaces); err != nil {
+			return err
+		}
+	}
+	p, err := d.Scaled(in.Net.RatePlaces)
+	if err != nil {
+		return fmt.Errorf("--shortfall-price %q: %w", price, err)
+	}
+	ext, err := flow.WithShortfall(in.Net, p, nil)
+	if err != nil {
+		return err
+	}
+	in.Plan.Flow = flow.ExtendPlan(in.Net, ext, in.Plan.Flow)
+	in.Net = ext
+	return nil
 }

@@ -15,7 +15,7 @@ import (
 
 // demoFiles is the embedded, invented demo scenario.
 //
-//go:embed demo/lanes.csv demo/nodes.csv demo/README.txt
+//go:embed demo/lanes.csv demo/nodes.csv demo/candidates.csv demo/README.txt
 var demoFiles embed.FS
 
 type demoOptions struct {

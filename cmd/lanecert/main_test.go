@@ -307,3 +307,83 @@ func TestBids(t *testing.T) {
 		t.Fatalf("exit %d, stderr %q", code, errText)
 	}
 }
+
+// shortDemo writes the demo with Larkspur Stores cut off: its three lanes in
+// are capped at 100 + 20 + 10 = 130 units for a demand of 160.
+func shortDemo(t *testing.T) (lanes, nodes, dir string) {
+	t.Helper()
+	dir = t.TempDir()
+	runCLI(t, "demo", "--write", dir)
+	lanes, nodes = filepath.Join(dir, "lanes.csv"), filepath.Join(dir, "nodes.csv")
+	b, _ := os.ReadFile(lanes)
+	s := strings.NewReplacer(
+		"L25,DC Brightmere,Larkspur Stores,7.20,0,,160", "L25,DC Brightmere,Larkspur Stores,7.20,0,100,160",
+		"L27,DC Quillmoor,Larkspur Stores,12.60,0,,0", "L27,DC Quillmoor,Larkspur Stores,12.60,0,20,0",
+		"L33,Plant Corvel,Larkspur Stores,19.90,0,80,0", "L33,Plant Corvel,Larkspur Stores,19.90,0,10,0",
+	).Replace(string(b))
+	short := filepath.Join(dir, "short.csv")
+	os.WriteFile(short, []byte(s), 0o644)
+	return short, nodes, dir
+}
+
+func TestNetworkInfeasibleCut(t *testing.T) {
+	lanes, nodes, _ := shortDemo(t)
+	code, out, _ := runCLI(t, "audit", lanes, "--nodes", nodes, "--format", "json")
+	var doc struct {
+		Verdict string `json:"verdict"`
+		Cut     struct {
+			Nodes     []string `json:"nodes"`
+			Demand    string   `json:"demand"`
+			Reach     string   `json:"reachable_supply"`
+			Shortfall string   `json:"shortfall"`
+			FullLanes []string `json:"full_lanes"`
+		} `json:"cut"`
+	}
+	if err := json.Unmarshal([]byte(out), &doc); err != nil {
+		t.Fatal(err)
+	}
+	// By hand: demand 160, capacity in 130, 30 short.
+	c := doc.Cut
+	if code != exitNetworkInfeasible || doc.Verdict != "network-infeasible" || len(c.Nodes) != 1 || c.Nodes[0] != "Larkspur Stores" ||
+		c.Demand != "160" || c.Reach != "130" || c.Shortfall != "30" || strings.Join(c.FullLanes, ",") != "L25,L27,L33" {
+		t.Fatalf("exit %d, doc %+v", code, doc)
+	}
+	// With a shortfall price the plan is judged with unmet demand priced.
+	code, out, _ = runCLI(t, "audit", lanes, "--nodes", nodes, "--shortfall-price", "40", "--format", "json")
+	if code != exitPlanInfeasible || !strings.Contains(out, `"optimal_cost": "18816.50"`) {
+		t.Fatalf("shortfall price: exit %d\n%s", code, out)
+	}
+}
+
+func TestExtend(t *testing.T) {
+	lanes, nodes, dir := shortDemo(t)
+	code, out, errText := runCLI(t, "extend", lanes, "--nodes", nodes, "--per-km", "0.05", "--per-unit", "4", "--format", "json")
+	if code != exitOptimal {
+		t.Fatalf("exit %d: %s", code, errText)
+	}
+	var doc struct {
+		Estimated bool `json:"estimated_rates"`
+		Feasible  bool `json:"feasible"`
+		Added     []struct {
+			To string `json:"to"`
+		} `json:"added_lanes"`
+		Cut *struct{} `json:"cut"`
+	}
+	if err := json.Unmarshal([]byte(out), &doc); err != nil {
+		t.Fatal(err)
+	}
+	if !doc.Estimated || !doc.Feasible || doc.Cut == nil || len(doc.Added) == 0 || doc.Added[0].To != "Larkspur Stores" {
+		t.Fatalf("doc %+v\n%s", doc, out)
+	}
+	// The demo's candidate file holds no lane into Larkspur Stores: still short.
+	code, _, _ = runCLI(t, "extend", lanes, "--nodes", nodes, "--candidates", filepath.Join(dir, "candidates.csv"))
+	if code != exitNetworkInfeasible {
+		t.Fatalf("exit %d, want 3", code)
+	}
+	bad := filepath.Join(dir, "bad.csv")
+	os.WriteFile(bad, []byte("from,to,rate,fixed\nPlant Corvel,Larkspur Stores,5,-2\n"), 0o644)
+	code, _, errText = runCLI(t, "extend", lanes, "--nodes", nodes, "--candidates", bad)
+	if code != exitBadInput || !strings.Contains(errText, "bad.csv:2:") || !strings.Contains(errText, "fixed") {
+		t.Fatalf("exit %d, stderr %q", code, errText)
+	}
+}
