@@ -56,6 +56,15 @@ func (p *RawPlan) Len() int { return len(p.q.mant) }
 // All errors are collected and returned together as an ErrorList of
 // positioned ParseErrors. It runs in O(|V|+|E|) time.
 func ReadCSVNetwork(lanes io.Reader, lanesFile string, nodes io.Reader, nodesFile string, opt TableOptions) (*Network, *RawPlan, error) {
+	data, err := io.ReadAll(lanes)
+	if err != nil {
+		return nil, nil, fmt.Errorf("flow: reading %s: %w", lanesFile, err)
+	}
+	return readCSVNetwork(data, lanesFile, nodes, nodesFile, opt)
+}
+
+// readCSVNetwork is ReadCSVNetwork on the lane table's bytes.
+func readCSVNetwork(data []byte, lanesFile string, nodes io.Reader, nodesFile string, opt TableOptions) (*Network, *RawPlan, error) {
 	idx := &nodeIndex{ids: map[string]NodeID{}}
 	var supply rawQty
 	var nodeExtra *ExtraColumns
@@ -65,10 +74,6 @@ func ReadCSVNetwork(lanes io.Reader, lanesFile string, nodes io.Reader, nodesFil
 		if err != nil {
 			return nil, nil, err
 		}
-	}
-	data, err := io.ReadAll(lanes)
-	if err != nil {
-		return nil, nil, fmt.Errorf("flow: reading %s: %w", lanesFile, err)
 	}
 	e := &errs{file: lanesFile}
 	t, err := openTable(data, lanesFile, opt, laneColumns, e)
@@ -84,10 +89,11 @@ func ReadCSVNetwork(lanes io.Reader, lanesFile string, nodes io.Reader, nodesFil
 	if _, ok := t.cols["flow"]; ok {
 		plan = &RawPlan{File: lanesFile}
 	}
-	var laneIDs map[string]int
+	// Lane ids are copied into one arena (so they do not keep the file's
+	// lines alive) and checked for repeats by sorting at the end.
+	var ids *laneIDs
 	if _, ok := t.cols["lane"]; ok {
-		laneIDs = map[string]int{}
-		n.LaneNames = []string{}
+		ids = &laneIDs{}
 	}
 	var extra *ExtraColumns
 	if len(t.extra) > 0 {
@@ -123,17 +129,9 @@ func ReadCSVNetwork(lanes io.Reader, lanesFile string, nodes io.Reader, nodesFil
 			ok = ok && okf
 		}
 		var id string
-		if laneIDs != nil {
+		if ids != nil {
 			var okl bool
 			id, okl = r.name("lane")
-			if okl {
-				if first, dup := laneIDs[id]; dup {
-					r.fail("lane", fmt.Errorf("%w lane id: already used on data row %d", ErrDuplicate, first))
-					okl = false
-				} else {
-					laneIDs[id] = r.n
-				}
-			}
 			ok = ok && okl
 		}
 		if !ok {
@@ -147,8 +145,9 @@ func ReadCSVNetwork(lanes io.Reader, lanesFile string, nodes io.Reader, nodesFil
 		if plan != nil {
 			plan.q.add(f)
 		}
-		if laneIDs != nil {
-			n.LaneNames = append(n.LaneNames, id)
+		if ids != nil {
+			line, col := r.pos("lane")
+			ids.add(id, line, col)
 		}
 		if extra != nil {
 			extra.Values = append(extra.Values, r.extras())
@@ -156,6 +155,9 @@ func ReadCSVNetwork(lanes io.Reader, lanesFile string, nodes io.Reader, nodesFil
 	})
 	if err != nil {
 		return nil, nil, err
+	}
+	if ids != nil {
+		n.LaneNames = ids.finish(e)
 	}
 	if err := e.list.sortAndErr(); err != nil {
 		return nil, nil, err
@@ -292,6 +294,66 @@ func readNodeTable(rd io.Reader, file string, opt TableOptions, idx *nodeIndex) 
 		return supply, nil, &ParseError{File: file, Line: 2, Err: fmt.Errorf("%w: the node table has no rows", ErrEmpty)}
 	}
 	return supply, extra, nil
+}
+
+// laneIDs collects lane identifiers in one byte arena with their
+// positions, for 16 bytes per lane plus the text instead of a map.
+type laneIDs struct {
+	arena      []byte
+	end        []int32
+	line, col  []int32
+	allNumbers bool
+}
+
+func (l *laneIDs) add(id string, line, col int) {
+	if len(l.end) == 0 {
+		l.allNumbers = true
+	}
+	if l.allNumbers && id != strconv.Itoa(len(l.end)+1) {
+		l.allNumbers = false
+	}
+	l.arena = append(l.arena, id...)
+	l.end = append(l.end, int32(len(l.arena)))
+	l.line = append(l.line, int32(line))
+	l.col = append(l.col, int32(col))
+}
+
+// finish reports repeated ids to e and returns the names: nil when they
+// are just the row numbers 1, 2, 3, ... (LaneName gives those anyway).
+// O(|E| log |E|).
+func (l *laneIDs) finish(e *errs) []string {
+	text := string(l.arena)
+	names := make([]string, len(l.end))
+	start := int32(0)
+	for i, end := range l.end {
+		names[i] = text[start:end]
+		start = end
+	}
+	order := make([]int32, len(names))
+	for i := range order {
+		order[i] = int32(i)
+	}
+	sort.Slice(order, func(i, j int) bool {
+		a, b := order[i], order[j]
+		if names[a] != names[b] {
+			return names[a] < names[b]
+		}
+		return a < b
+	})
+	for k := 1; k < len(order); k++ {
+		a, b := order[k-1], order[k]
+		if names[a] == names[b] {
+			first := a
+			for k2 := k - 1; k2 > 0 && names[order[k2-1]] == names[b]; k2-- {
+				first = order[k2-1]
+			}
+			e.add(int(l.line[b]), int(l.col[b]), "lane", names[b], fmt.Errorf("%w lane id: already used on line %d", ErrDuplicate, l.line[first]))
+		}
+	}
+	if l.allNumbers {
+		return nil
+	}
+	return names
 }
 
 // laneLookup finds lanes by identifier or by (from, to) pair.

@@ -110,7 +110,7 @@ func TestReadCSVNetworkLaneErrors(t *testing.T) {
 		{name: "negative min", lanes: hdr + "A,B,1,-1,4\n", want: []wantErr{{2, 7, "min", ErrNegative}}},
 		{name: "negative capacity", lanes: hdr + "A,B,1,0,-4\n", want: []wantErr{{2, 9, "max", ErrNegative}}},
 		{name: "duplicate lane id", lanes: "lane,from,to,cost\nL1,A,B,1\nL2,B,C,1\nL1,B,C,2\n",
-			want: []wantErr{{4, 1, "lane", ErrDuplicate}}, msg: "already used on data row 1"},
+			want: []wantErr{{4, 1, "lane", ErrDuplicate}}, msg: "already used on line 2"},
 		{name: "empty lane id", lanes: "lane,from,to,cost\n,A,B,1\n", want: []wantErr{{2, 1, "lane", ErrSyntax}}},
 		{name: "empty from", lanes: "from,to,cost\n,B,1\n", want: []wantErr{{2, 1, "from", ErrSyntax}}, msg: "want a name"},
 		// "A,  ,1": to starts at 3 (the spaces are part of the cell).

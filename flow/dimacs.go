@@ -24,6 +24,12 @@ func ReadDIMACS(r io.Reader, file string) (*Network, error) {
 	if err != nil {
 		return nil, fmt.Errorf("flow: reading %s: %w", file, err)
 	}
+	return parseDIMACS(data, file)
+}
+
+// parseDIMACS is ReadDIMACS on the file's bytes.
+func parseDIMACS(data []byte, file string) (*Network, error) {
+	var err error
 	e := &errs{file: file}
 	n := &Network{}
 	var supply, lower, upper, rate rawQty

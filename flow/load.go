@@ -48,7 +48,7 @@ func LoadFiles(f Files) (*Loaded, error) {
 		if f.Nodes != "" {
 			return nil, fmt.Errorf("flow: %s is a DIMACS file: its nodes come from its n lines, a node table does not apply", f.Network)
 		}
-		if out.Net, err = ReadDIMACS(bytes.NewReader(data), f.Network); err != nil {
+		if out.Net, err = parseDIMACS(data, f.Network); err != nil {
 			return nil, err
 		}
 	} else {
@@ -60,7 +60,7 @@ func LoadFiles(f Files) (*Loaded, error) {
 			}
 			nr = bytes.NewReader(nd)
 		}
-		if out.Net, raw, err = ReadCSVNetwork(bytes.NewReader(data), f.Network, nr, f.Nodes, f.Table); err != nil {
+		if out.Net, raw, err = readCSVNetwork(data, f.Network, nr, f.Nodes, f.Table); err != nil {
 			return nil, err
 		}
 		if raw != nil {

@@ -54,12 +54,14 @@ type Document struct {
 	Cycles        []CycleDoc  `json:"cycles"`
 	Repair        []ChangeDoc `json:"repair"`
 	RangesFor     string      `json:"ranges_for,omitempty"`
-	Lanes         []LaneDoc   `json:"lanes"`
-	Nodes         []NodeDoc   `json:"nodes"`
 	ExtraColumns  []string    `json:"extra_columns"`
 	Caution       string      `json:"caution"`
 	order         []int       // lanes, problem lanes first
 	net           *flow.Network
+	audit         *dual.Audit
+	broken        []bool // per lane: breaks complementary slackness
+	rangeFlow     []int64
+	sens          *dual.Sensitivity
 }
 
 // SolverDoc says how the optimum was found.
@@ -269,45 +271,13 @@ func Build(a *dual.Audit, opt *dual.Optimum, in Inputs, rounded []flow.Rounding)
 	if n.Extra != nil {
 		d.ExtraColumns = n.Extra.Names
 	}
-	broken := make(map[flow.LaneID]bool, len(a.Broken))
+	d.audit = a
+	d.broken = make([]bool, n.NumLanes())
 	for _, e := range a.Broken {
-		broken[e] = true
+		d.broken[e] = true
 	}
-	d.Lanes = make([]LaneDoc, n.NumLanes())
-	for e := range d.Lanes {
-		l := LaneDoc{
-			ID:    n.LaneName(flow.LaneID(e)),
-			From:  n.Nodes[n.Tail[e]],
-			To:    n.Nodes[n.Head[e]],
-			Cost:  n.FormatRate(n.Rate[e]),
-			Flow:  n.FormatQty(a.Flow[e]),
-			Min:   n.FormatQty(n.Lower[e]),
-			State: stateName(a.State[e]),
-		}
-		if n.Upper[e] != flow.NoLimit {
-			l.Max = sp(n.FormatQty(n.Upper[e]))
-		}
-		if a.Reduced != nil {
-			l.ReducedCost = sp(n.FormatRate(a.Reduced[e]))
-			ok := !broken[flow.LaneID(e)]
-			l.SlackOK = &ok
-		}
-		if n.Extra != nil && n.Extra.Values[e] != nil {
-			l.Extra = map[string]string{}
-			for c, name := range n.Extra.Names {
-				l.Extra[name] = n.Extra.Values[e][c]
-			}
-		}
+	for e := range a.State {
 		counts(&d.States, a.State[e])
-		d.Lanes[e] = l
-	}
-	d.Nodes = make([]NodeDoc, n.NumNodes())
-	for v := range d.Nodes {
-		nd := NodeDoc{ID: n.Nodes[v], Supply: n.FormatQty(n.Supply[v]), NetOut: n.FormatQty(f.NetOut[v])}
-		if a.Potential != nil {
-			nd.Potential = sp(n.FormatRate(a.Potential[v]))
-		}
-		d.Nodes[v] = nd
 	}
 	d.order = problemFirst(a)
 	if opt != nil {
@@ -316,6 +286,64 @@ func Build(a *dual.Audit, opt *dual.Optimum, in Inputs, rounded []flow.Rounding)
 		}
 	}
 	return d, nil
+}
+
+// NumLanes and NumNodes count the entries Lane and Node give.
+func (d *Document) NumLanes() int { return d.net.NumLanes() }
+
+// NumNodes returns the number of nodes.
+func (d *Document) NumNodes() int { return d.net.NumNodes() }
+
+// Lane returns lane e's entry. Entries are built on demand, so a report on
+// a large network never holds them all.
+func (d *Document) Lane(e int) LaneDoc {
+	n, a := d.net, d.audit
+	l := LaneDoc{
+		ID:    n.LaneName(flow.LaneID(e)),
+		From:  n.Nodes[n.Tail[e]],
+		To:    n.Nodes[n.Head[e]],
+		Cost:  n.FormatRate(n.Rate[e]),
+		Flow:  n.FormatQty(a.Flow[e]),
+		Min:   n.FormatQty(n.Lower[e]),
+		State: stateName(a.State[e]),
+	}
+	if n.Upper[e] != flow.NoLimit {
+		l.Max = sp(n.FormatQty(n.Upper[e]))
+	}
+	if a.Reduced != nil {
+		l.ReducedCost = sp(n.FormatRate(a.Reduced[e]))
+		ok := !d.broken[e]
+		l.SlackOK = &ok
+	}
+	if n.Extra != nil && e < len(n.Extra.Values) && n.Extra.Values[e] != nil {
+		l.Extra = map[string]string{}
+		for c, name := range n.Extra.Names {
+			l.Extra[name] = n.Extra.Values[e][c]
+		}
+	}
+	if d.sens != nil {
+		l.Range = d.rangeDoc(e)
+	}
+	return l
+}
+
+// Node returns node v's entry.
+func (d *Document) Node(v int) NodeDoc {
+	n, a := d.net, d.audit
+	nd := NodeDoc{ID: n.Nodes[v], Supply: n.FormatQty(n.Supply[v]), NetOut: n.FormatQty(a.Feasibility.NetOut[v])}
+	if a.Potential != nil {
+		nd.Potential = sp(n.FormatRate(a.Potential[v]))
+	}
+	if d.sens != nil {
+		np := d.sens.Nodes[v]
+		if np.HasUp {
+			nd.ShadowPrice = sp(n.FormatRate(np.Up))
+		}
+		if np.HasDown {
+			nd.PriceIfLess = sp(n.FormatRate(np.Down))
+		}
+	}
+	return nd
 }
 
 // UnmetDoc is demand left unmet at a node under a shortfall price, and
@@ -345,37 +373,28 @@ func (d *Document) AddUnmet(x []int64, orig int) {
 // forPlan says which plan they describe ("plan" when the audited plan is
 // optimal, "optimal-plan" otherwise).
 func (d *Document) AddRanges(y []int64, s *dual.Sensitivity, forPlan string) {
-	n := d.net
-	d.RangesFor = forPlan
-	for e := range d.Lanes {
-		lr := s.Lanes[e]
-		rd := &RangeDoc{State: stateName(dual.StateOf(y[e], n.Lower[e], n.Upper[e])), ByRoute: lr.ByRoute}
-		if lr.HasLower {
-			rd.Lower = sp(n.FormatRate(lr.Lower))
-		}
-		if lr.HasUpper {
-			rd.Upper = sp(n.FormatRate(lr.Upper))
-		}
-		if y[e] == n.Upper[e] && n.Lower[e] < n.Upper[e] {
-			rd.CapacityValue = sp(n.FormatRate(lr.CapacityValue))
-		}
-		if lr.LowerBy >= 0 {
-			rd.LowerBy = sp(n.LaneName(lr.LowerBy))
-		}
-		if lr.UpperBy >= 0 {
-			rd.UpperBy = sp(n.LaneName(lr.UpperBy))
-		}
-		d.Lanes[e].Range = rd
+	d.RangesFor, d.rangeFlow, d.sens = forPlan, y, s
+}
+
+func (d *Document) rangeDoc(e int) *RangeDoc {
+	n, y, lr := d.net, d.rangeFlow, d.sens.Lanes[e]
+	rd := &RangeDoc{State: stateName(dual.StateOf(y[e], n.Lower[e], n.Upper[e])), ByRoute: lr.ByRoute}
+	if lr.HasLower {
+		rd.Lower = sp(n.FormatRate(lr.Lower))
 	}
-	for v := range d.Nodes {
-		np := s.Nodes[v]
-		if np.HasUp {
-			d.Nodes[v].ShadowPrice = sp(n.FormatRate(np.Up))
-		}
-		if np.HasDown {
-			d.Nodes[v].PriceIfLess = sp(n.FormatRate(np.Down))
-		}
+	if lr.HasUpper {
+		rd.Upper = sp(n.FormatRate(lr.Upper))
 	}
+	if y[e] == n.Upper[e] && n.Lower[e] < n.Upper[e] {
+		rd.CapacityValue = sp(n.FormatRate(lr.CapacityValue))
+	}
+	if lr.LowerBy >= 0 {
+		rd.LowerBy = sp(n.LaneName(lr.LowerBy))
+	}
+	if lr.UpperBy >= 0 {
+		rd.UpperBy = sp(n.LaneName(lr.UpperBy))
+	}
+	return rd
 }
 
 // VerdictNetworkInfeasible is the verdict when no plan can meet the demands.

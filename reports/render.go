@@ -1,6 +1,7 @@
 package reports
 
 import (
+	"bufio"
 	"encoding/csv"
 	"encoding/json"
 	"fmt"
@@ -61,11 +62,42 @@ func Write(w io.Writer, d *Document, f Format, opt Options) error {
 	return writeHuman(w, d, opt, false)
 }
 
+// writeJSON writes the summary fields, then streams the lanes and nodes
+// one entry at a time (a large network's report is never held whole).
 func writeJSON(w io.Writer, d *Document) error {
-	enc := json.NewEncoder(w)
-	enc.SetIndent("", "  ")
-	enc.SetEscapeHTML(true)
-	return enc.Encode(d)
+	head, err := json.MarshalIndent(d, "", "  ")
+	if err != nil {
+		return err
+	}
+	bw := bufio.NewWriter(w)
+	bw.Write(head[:len(head)-2]) // drop "\n}"
+	list := func(key string, count int, entry func(i int) any) error {
+		fmt.Fprintf(bw, ",\n  %q: [", key)
+		for i := 0; i < count; i++ {
+			b, err := json.MarshalIndent(entry(i), "    ", "  ")
+			if err != nil {
+				return err
+			}
+			if i > 0 {
+				bw.WriteByte(',')
+			}
+			bw.WriteString("\n    ")
+			bw.Write(b)
+		}
+		if count > 0 {
+			bw.WriteString("\n  ")
+		}
+		bw.WriteByte(']')
+		return nil
+	}
+	if err := list("lanes", d.NumLanes(), func(i int) any { return d.Lane(i) }); err != nil {
+		return err
+	}
+	if err := list("nodes", d.NumNodes(), func(i int) any { return d.Node(i) }); err != nil {
+		return err
+	}
+	bw.WriteString("\n}\n")
+	return bw.Flush()
 }
 
 // CSVHeader is the fixed part of the CSV lane table's header.
@@ -77,7 +109,8 @@ func writeCSV(w io.Writer, d *Document) error {
 	if err := cw.Write(SafeCells(head)); err != nil {
 		return err
 	}
-	for _, l := range d.Lanes {
+	for e := 0; e < d.NumLanes(); e++ {
+		l := d.Lane(e)
 		rec := []string{l.ID, l.From, l.To, l.Cost, l.Flow, l.Min, deref(l.Max, ""), l.State, deref(l.ReducedCost, ""), boolText(l.SlackOK)}
 		for _, c := range d.ExtraColumns {
 			rec = append(rec, l.Extra[c])
@@ -284,7 +317,7 @@ func writeHuman(w io.Writer, d *Document, opt Options, md bool) error {
 		[]tw.Align{tw.AlignLeft, tw.AlignLeft, tw.AlignLeft, tw.AlignRight, tw.AlignRight, tw.AlignRight, tw.AlignLeft, tw.AlignRight, tw.AlignLeft}); err != nil {
 		return err
 	}
-	if rest := len(d.Lanes) - shown; rest > 0 {
+	if rest := d.NumLanes() - shown; rest > 0 {
 		p.line("... %d more lane(s) not shown%s", rest, opt.MoreHint)
 	}
 	if d.RangesFor != "" {
@@ -302,7 +335,8 @@ func writeHuman(w io.Writer, d *Document, opt Options, md bool) error {
 			header = append(header, "one more unit costs", "one less saves")
 			align = append(align, tw.AlignRight, tw.AlignRight)
 		}
-		for _, nd := range d.Nodes {
+		for v := 0; v < d.NumNodes(); v++ {
+			nd := d.Node(v)
 			row := []string{nd.ID, nd.Supply, nd.NetOut, deref(nd.Potential, "-")}
 			if d.RangesFor != "" {
 				row = append(row, deref(nd.ShadowPrice, "cannot"), deref(nd.PriceIfLess, "cannot"))
@@ -329,10 +363,11 @@ func writeRanges(p *printer, d *Document, opt Options) error {
 	}
 	p.line("Rates at which %s stays optimal (break-even rate for unused lanes; * = found by a route through the residual network):", which)
 	var rows [][]string
-	for i, l := range d.Lanes {
+	for i := 0; i < d.NumLanes(); i++ {
 		if opt.Rows > 0 && i == opt.Rows {
 			break
 		}
+		l := d.Lane(i)
 		r := l.Range
 		lower, upper := deref(r.Lower, "no limit"), deref(r.Upper, "no limit")
 		if r.ByRoute {
@@ -344,7 +379,7 @@ func writeRanges(p *printer, d *Document, opt Options) error {
 		[]tw.Align{tw.AlignLeft, tw.AlignLeft, tw.AlignLeft, tw.AlignRight, tw.AlignLeft, tw.AlignRight, tw.AlignRight, tw.AlignRight}); err != nil {
 		return err
 	}
-	if rest := len(d.Lanes) - len(rows); rest > 0 {
+	if rest := d.NumLanes() - len(rows); rest > 0 {
 		p.line("... %d more lane(s) not shown%s", rest, opt.MoreHint)
 	}
 	return nil
@@ -443,7 +478,7 @@ func laneRows(d *Document, limit int) ([][]string, int) {
 	}
 	rows := make([][]string, 0, n)
 	for _, e := range d.order[:n] {
-		l := d.Lanes[e]
+		l := d.Lane(e)
 		slack := "-"
 		if l.SlackOK != nil {
 			slack = "ok"
