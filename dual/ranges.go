@@ -863,48 +863,9 @@ func (r *ranger) keeps(v int32) bool {
 // network: the hold node, else its origin of least potential (see the
 // package documentation); -1 when the piece has no origin.
 func (r *ranger) anchors() []int32 {
-	g := r.g
-	nv := g.numNodes()
-	parent := make([]int32, nv)
-	for v := range parent {
-		parent[v] = int32(v)
-	}
-	find := func(v int32) int32 {
-		for parent[v] != v {
-			parent[v] = parent[parent[v]]
-			v = parent[v]
-		}
-		return v
-	}
-	for e, na := 0, g.numArcs(); e < na; e++ {
-		a, b := find(g.tail(e)), find(g.head(e))
-		if a != b {
-			parent[max(a, b)] = min(a, b)
-		}
-	}
-	best := make([]int32, nv)
-	kind := make([]int8, nv)
-	for v := range best {
-		best[v] = -1
-	}
-	for v := 0; v < nv; v++ {
-		root := find(int32(v))
-		k := int8(1)
-		switch {
-		case int32(v) == g.hold:
-			k = 3
-		case g.n.Supply[v] > 0:
-			k = 2
-		}
-		if best[root] < 0 || k > kind[root] || (k == kind[root] && r.p[v] < r.p[best[root]]) {
-			best[root], kind[root] = int32(v), k
-		}
-	}
-	out := make([]int32, nv)
+	out, kind := r.g.anchors(r.p)
 	for v := range out {
-		root := find(int32(v))
-		out[v] = best[root]
-		if kind[root] < 2 {
+		if kind[v] < anchorOrigin {
 			out[v] = -1 // no supply can reach this piece
 		}
 	}

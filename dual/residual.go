@@ -437,15 +437,39 @@ func (g *graph) finish(a *Audit, p []int64) error {
 }
 
 // normalise shifts each weakly connected piece of the extended network (see
-// the package documentation).
+// the package documentation) so that its anchor has potential 0.
 func (g *graph) normalise(p []int64) error {
+	anchor, _ := g.anchors(p)
+	shift := make([]int64, len(p))
+	for v := range p {
+		shift[v] = p[anchor[v]]
+	}
+	for v := range p {
+		var err error
+		if p[v], err = flow.SubChecked(p[v], shift[v]); err != nil {
+			return fmt.Errorf("dual: potentials %w", err)
+		}
+	}
+	return nil
+}
+
+// Anchor kinds, in order of preference.
+const (
+	anchorAny    int8 = 1 // a piece without origins: its node of least potential
+	anchorOrigin int8 = 2 // its origin of least potential (then lowest number)
+	anchorHold   int8 = 3 // the hold node
+)
+
+// anchors returns, per node of the extended network, the anchor of its
+// weakly connected piece under potentials p and the anchor's kind.
+// Union-find over all arcs: O((|V|+|E|) α).
+func (g *graph) anchors(p []int64) ([]int32, []int8) {
 	nv := g.numNodes()
 	parent := make([]int32, nv)
 	for v := range parent {
 		parent[v] = int32(v)
 	}
-	var find func(int32) int32
-	find = func(v int32) int32 {
+	find := func(v int32) int32 {
 		for parent[v] != v {
 			parent[v] = parent[parent[v]]
 			v = parent[v]
@@ -455,39 +479,33 @@ func (g *graph) normalise(p []int64) error {
 	for e, na := 0, g.numArcs(); e < na; e++ {
 		a, b := find(g.tail(e)), find(g.head(e))
 		if a != b {
-			if a < b {
-				parent[b] = a
-			} else {
-				parent[a] = b
-			}
+			parent[max(a, b)] = min(a, b)
 		}
 	}
-	const unset = int64(-1) << 63
-	anchor := make([]int64, nv) // per root: the value to subtract
-	kind := make([]int8, nv)    // 0 none, 1 any node, 2 origin, 3 hold
-	for v := 0; v < nv; v++ {
-		anchor[v] = unset
+	best := make([]int32, nv)
+	kind := make([]int8, nv)
+	for v := range best {
+		best[v] = -1
 	}
 	for v := 0; v < nv; v++ {
-		r := find(int32(v))
-		k := int8(1)
+		root := find(int32(v))
+		k := anchorAny
 		switch {
 		case int32(v) == g.hold:
-			k = 3
+			k = anchorHold
 		case g.n.Supply[v] > 0:
-			k = 2
+			k = anchorOrigin
 		}
-		if k > kind[r] || (k == kind[r] && p[v] < anchor[r]) {
-			kind[r], anchor[r] = k, p[v]
-		}
-	}
-	for v := 0; v < nv; v++ {
-		var err error
-		if p[v], err = flow.SubChecked(p[v], anchor[find(int32(v))]); err != nil {
-			return fmt.Errorf("dual: potentials %w", err)
+		if best[root] < 0 || k > kind[root] || (k == kind[root] && p[v] < p[best[root]]) {
+			best[root], kind[root] = int32(v), k
 		}
 	}
-	return nil
+	out, outKind := make([]int32, nv), make([]int8, nv)
+	for v := range out {
+		root := find(int32(v))
+		out[v], outKind[v] = best[root], kind[root]
+	}
+	return out, outKind
 }
 
 // dual computes the dual objective and checks it against the cost.

@@ -1,8 +1,6 @@
 package main
 
 import (
-	"errors"
-	"fmt"
 	"io"
 	"os"
 
@@ -71,22 +69,9 @@ func runBids(o *bidsOptions, s streams) error {
 	if err != nil {
 		return err
 	}
-	var start []int64
-	if in.Plan != nil {
-		if f, err := flow.CheckPlan(n, in.Plan.Flow); err == nil && f.Feasible() {
-			start = in.Plan.Flow
-		}
-	}
-	opt, err := dual.Optimize(n, start, nil)
+	opt, err := optimum(in, s)
 	if err != nil {
 		return err
-	}
-	switch opt.Status {
-	case flow.Infeasible:
-		fmt.Fprintf(s.err, "lanecert: the network is infeasible: at least %s units cannot be delivered\n", n.FormatQty(opt.Shortfall))
-		return &statusError{exitNetworkInfeasible}
-	case flow.Unbounded:
-		return errors.New("no optimum: a cycle of lanes without capacity lowers the cost without limit")
 	}
 	res, set, err := dual.EvaluateBids(n, opt.Flow, opt.Potential, opt.Cost, cands)
 	if err != nil {

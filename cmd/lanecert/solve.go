@@ -153,3 +153,27 @@ func runPlan(o *planOptions, s streams) error {
 	}
 	return write(s.out)
 }
+
+// optimum solves the loaded network, starting from its plan when that is
+// feasible (so ties are kept as in the plan), and turns a network without
+// an optimum into the command's error and exit status.
+func optimum(in *flow.Loaded, s streams) (*dual.Optimum, error) {
+	var start []int64
+	if in.Plan != nil {
+		if f, err := flow.CheckPlan(in.Net, in.Plan.Flow); err == nil && f.Feasible() {
+			start = in.Plan.Flow
+		}
+	}
+	opt, err := dual.Optimize(in.Net, start, nil)
+	if err != nil {
+		return nil, err
+	}
+	switch opt.Status {
+	case flow.Infeasible:
+		fmt.Fprintf(s.err, "lanecert: the network is infeasible: at least %s units cannot be delivered\n", in.Net.FormatQty(opt.Shortfall))
+		return nil, &statusError{exitNetworkInfeasible}
+	case flow.Unbounded:
+		return nil, errors.New("no optimum: a cycle of lanes without capacity lowers the cost without limit")
+	}
+	return opt, nil
+}

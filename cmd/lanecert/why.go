@@ -1,7 +1,6 @@
 package main
 
 import (
-	"errors"
 	"fmt"
 	"io"
 	"strings"
@@ -60,22 +59,9 @@ func runWhy(o *whyOptions, s streams) error {
 	if !ok {
 		return fmt.Errorf("no lane %q in %s", o.lane, o.in.files.Network)
 	}
-	var start []int64
-	if in.Plan != nil {
-		if f, err := flow.CheckPlan(n, in.Plan.Flow); err == nil && f.Feasible() {
-			start = in.Plan.Flow
-		}
-	}
-	opt, err := dual.Optimize(n, start, nil)
+	opt, err := optimum(in, s)
 	if err != nil {
 		return err
-	}
-	switch opt.Status {
-	case flow.Infeasible:
-		fmt.Fprintf(s.err, "lanecert: the network is infeasible: at least %s units cannot be delivered\n", n.FormatQty(opt.Shortfall))
-		return &statusError{exitNetworkInfeasible}
-	case flow.Unbounded:
-		return errors.New("no optimum: a cycle of lanes without capacity lowers the cost without limit")
 	}
 	sens, err := dual.Ranges(n, opt.Flow, opt.Potential)
 	if err != nil {
