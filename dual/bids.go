@@ -40,40 +40,18 @@ type BidSet struct {
 // Cost: one search per candidate for the break-even rate, one warm-started
 // solve per candidate, and one for the set.
 func EvaluateBids(n *flow.Network, y, p []int64, cost flow.Wide, cands []flow.Candidate) ([]BidResult, *BidSet, error) {
-	f, err := flow.CheckPlan(n, y)
+	pr, err := newPricer(n, y, p)
 	if err != nil {
-		return nil, nil, err
-	}
-	g := newGraph(n, y, f)
-	if _, err := g.forest(); err != nil {
-		return nil, nil, err
-	}
-	r := newRanger(g, p)
-	if err := r.buildEdges(); err != nil {
 		return nil, nil, err
 	}
 	out := make([]BidResult, len(cands))
 	for i, c := range cands {
 		br := &out[i]
-		// The lane would carry more when the route from its head back to
-		// its tail costs less than its rate: break-even = -cost of route.
-		src, dst := g.comp[c.Head], g.comp[c.Tail]
-		d := int64(0)
-		reached := true
-		if src != dst {
-			if err := r.search([]int32{src}, []int32{dst}, split{child: -1}, -1, false); err != nil {
-				return nil, nil, err
-			}
-			d, reached = r.dist[dst], r.dist[dst] != unreached
+		be, ok, err := pr.breakEven(c.Tail, c.Head)
+		if err != nil {
+			return nil, nil, err
 		}
-		if reached {
-			be, err := flow.SubChecked(r.p[c.Head], r.p[c.Tail])
-			if err == nil {
-				be, err = flow.SubChecked(be, d)
-			}
-			if err != nil {
-				return nil, nil, fmt.Errorf("dual: break-even rate %w", err)
-			}
+		if ok {
 			br.BreakEven, br.HasBreakEven = be, true
 			if be > c.Rate {
 				br.SavingPerUnit = be - c.Rate
@@ -105,6 +83,52 @@ func EvaluateBids(n *flow.Network, y, p []int64, cost flow.Wide, cands []flow.Ca
 		}
 	}
 	return out, set, nil
+}
+
+// pricer answers break-even questions about new lanes for an optimal plan.
+type pricer struct{ r *ranger }
+
+func newPricer(n *flow.Network, y, p []int64) (*pricer, error) {
+	f, err := flow.CheckPlan(n, y)
+	if err != nil {
+		return nil, err
+	}
+	g := newGraph(n, y, f)
+	if _, err := g.forest(); err != nil {
+		return nil, err
+	}
+	r := newRanger(g, p)
+	if err := r.buildEdges(); err != nil {
+		return nil, err
+	}
+	return &pricer{r: r}, nil
+}
+
+// breakEven returns the rate at or below which a new lane from t to h would
+// be used: minus the cost of the cheapest route from h back to t (ok false:
+// there is none).
+func (pr *pricer) breakEven(t, h flow.NodeID) (int64, bool, error) {
+	r := pr.r
+	g := r.g
+	src, dst := g.comp[h], g.comp[t]
+	d := int64(0)
+	if src != dst {
+		if err := r.search([]int32{src}, []int32{dst}, split{child: -1}, -1, false); err != nil {
+			return 0, false, err
+		}
+		if r.dist[dst] == unreached {
+			return 0, false, nil
+		}
+		d = r.dist[dst]
+	}
+	be, err := flow.SubChecked(r.p[h], r.p[t])
+	if err == nil {
+		be, err = flow.SubChecked(be, d)
+	}
+	if err != nil {
+		return 0, false, fmt.Errorf("dual: break-even rate %w", err)
+	}
+	return be, true, nil
 }
 
 // solveWith solves n with the candidates added, starting from y (and 0 on

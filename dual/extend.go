@@ -43,6 +43,8 @@ type ExtendOptions struct {
 	// GreedyRounds bounds the rounds of adding one more lane after the best
 	// pair (default 10).
 	GreedyRounds int
+	// SinglesOnly stops after the best single lane.
+	SinglesOnly bool
 }
 
 // Extend finds the cheapest set of candidate lanes to open. Without fixed
@@ -150,14 +152,29 @@ func Extend(n *flow.Network, cands []flow.Candidate, opt ExtendOptions) (*Extens
 			best = t
 		}
 	} else {
+		// A single lane that cannot help is not solved: on an infeasible
+		// network it must enter the short region from outside with room for
+		// the units short; on a feasible one it must cost less than its
+		// break-even rate (or carry a minimum).
+		hopeless, err := x.hopeless(n, base, cands)
+		if err != nil {
+			return nil, err
+		}
 		singles := make([]trial, len(cands))
 		for i := range cands {
+			if hopeless[i] {
+				singles[i] = trial{set: []int{i}, short: -1}
+				continue
+			}
 			if singles[i], err = try([]int{i}); err != nil {
 				return nil, err
 			}
 			if better(singles[i]) {
 				best = singles[i]
 			}
+		}
+		if opt.SinglesOnly {
+			opt.PairPool, opt.GreedyRounds = 0, 0
 		}
 		// The pool for pairs: feasible singles by total, then the others by
 		// how much they leave short.
@@ -170,13 +187,16 @@ func Extend(n *flow.Network, cands []flow.Candidate, opt ExtendOptions) (*Extens
 			if sa.ok {
 				return sa.total.Cmp(sb.total) < 0
 			}
+			if (sa.short < 0) != (sb.short < 0) {
+				return sb.short < 0 // lanes not tried come last
+			}
 			return sa.short < sb.short
 		})
 		if len(pool) > opt.PairPool {
 			pool = pool[:opt.PairPool]
 		}
 		sort.Ints(pool)
-		for a := 0; a < len(pool); a++ {
+		for a := 0; a < len(pool) && opt.PairPool > 0; a++ {
 			for b := a + 1; b < len(pool); b++ {
 				t, err := try([]int{pool[a], pool[b]})
 				if err != nil {
@@ -212,8 +232,14 @@ func Extend(n *flow.Network, cands []flow.Candidate, opt ExtendOptions) (*Extens
 				break
 			}
 		}
-		x.Method = fmt.Sprintf("every single lane, every pair among the %d best singles, then lanes added one at a time while the total fell", len(pool))
-		x.Exact = len(cands) <= 2
+		if opt.SinglesOnly {
+			pool = nil
+		}
+		x.Method = fmt.Sprintf("every single lane that can help, every pair among the %d best singles, then lanes added one at a time while the total fell", len(pool))
+		if opt.SinglesOnly {
+			x.Method = "the best single lane (every single lane that can help)"
+		}
+		x.Exact = len(cands) <= 1 || (len(cands) == 2 && !opt.SinglesOnly)
 		// Lower bound: the linear relaxation.
 		if err := x.bound(n, cands); err != nil {
 			return nil, err
@@ -238,6 +264,47 @@ func Extend(n *flow.Network, cands []flow.Candidate, opt ExtendOptions) (*Extens
 		}
 	}
 	return x, nil
+}
+
+// hopeless marks the candidates that cannot improve on the network alone
+// when added on their own, from the cut (infeasible network) or the
+// break-even rate over the residual network of the optimal plan (feasible).
+func (x *Extension) hopeless(n *flow.Network, base *flow.Solution, cands []flow.Candidate) ([]bool, error) {
+	out := make([]bool, len(cands))
+	if base.Status == flow.Infeasible {
+		cut, err := flow.FindCut(n)
+		if err != nil || cut == nil || cut.Hold {
+			return out, err
+		}
+		in := make([]bool, n.NumNodes())
+		for _, v := range cut.Region {
+			in[v] = true
+		}
+		for i, c := range cands {
+			room := c.Upper == flow.NoLimit || c.Upper >= cut.Short
+			out[i] = in[c.Tail] || !in[c.Head] || !room
+		}
+		return out, nil
+	}
+	a, err := Check(n, base.Flow)
+	if err != nil {
+		return nil, err
+	}
+	pr, err := newPricer(n, base.Flow, a.Potential)
+	if err != nil {
+		return nil, err
+	}
+	for i, c := range cands {
+		if c.Lower > 0 {
+			continue
+		}
+		be, ok, err := pr.breakEven(c.Tail, c.Head)
+		if err != nil {
+			return nil, err
+		}
+		out[i] = !ok || c.Rate >= be
+	}
+	return out, nil
 }
 
 // bound solves the linear relaxation of the fixed-charge problem: every
