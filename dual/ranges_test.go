@@ -275,3 +275,52 @@ func checkRoutes(t *testing.T, i int, n *flow.Network, y, p []int64, s *dual.Sen
 		}
 	}
 }
+
+// TestRangesPublished checks break-even rates and capacity values against
+// reduced costs published with two optimal solutions whose potentials are
+// unique (one piece of lanes in use): an unused lane's break-even rate is
+// its rate minus its reduced cost, and one more unit of a full lane's
+// capacity is worth minus its reduced cost.
+func TestRangesPublished(t *testing.T) {
+	cases := []struct {
+		name, plan string
+		lane       int   // 0-based arc number in the .min file
+		reduced    int64 // published, converted to rate + p(from) - p(to)
+		full       bool
+		source     string
+	}{
+		// Dantzig, Linear Programming and Extensions (1963) ch. 3-3 (also
+		// GAMS TRNSPORT): reduced costs 36 (Seattle-Topeka) and 9 (San
+		// Diego-Chicago), in the file's dollar scale.
+		{"dantzig_trnsport", "dantzig_trnsport.flow", 2, 36, false, "Dantzig 1963 ch. 3-3"},
+		{"dantzig_trnsport", "dantzig_trnsport.flow", 4, 9, false, "Dantzig 1963 ch. 3-3"},
+		// GLPK 5.0 Graph and Network Routines sec. 2.1.5: reduced costs
+		// c - (pi_i - pi_j), the same number in our convention: 2->4 3
+		// (unused), 5->2 1 (unused), 5->7 -1 and 6->7 -3 (at capacity).
+		{"glpk_sample", "glpk_sample.flow", 3, 3, false, "GLPK 5.0 graphs sec. 2.1.5"},
+		{"glpk_sample", "glpk_sample.flow", 7, 1, false, "GLPK 5.0 graphs sec. 2.1.5"},
+		{"glpk_sample", "glpk_sample.flow", 9, -1, true, "GLPK 5.0 graphs sec. 2.1.5"},
+		{"glpk_sample", "glpk_sample.flow", 10, -3, true, "GLPK 5.0 graphs sec. 2.1.5"},
+	}
+	for _, c := range cases {
+		n, x := readRef(t, c.name, c.plan)
+		a, err := dual.Check(n, x)
+		if err != nil {
+			t.Fatal(err)
+		}
+		s, err := dual.Ranges(n, x, a.Potential)
+		if err != nil {
+			t.Fatal(err)
+		}
+		lr := s.Lanes[c.lane]
+		if c.full {
+			if lr.CapacityValue != -c.reduced {
+				t.Errorf("%s lane %d: capacity worth %d, want %d (%s)", c.name, c.lane+1, lr.CapacityValue, -c.reduced, c.source)
+			}
+			continue
+		}
+		if !lr.HasLower || lr.Lower != n.Rate[c.lane]-c.reduced || lr.ByRoute {
+			t.Errorf("%s lane %d: break-even %d (route %v), want %d (%s)", c.name, c.lane+1, lr.Lower, lr.ByRoute, n.Rate[c.lane]-c.reduced, c.source)
+		}
+	}
+}

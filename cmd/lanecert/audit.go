@@ -56,7 +56,7 @@ func addOutputFlags(cmd *cobra.Command, o *auditOptions) {
 	f.BoolVar(&o.showNodes, "show-nodes", false, "add the per-node table (balance and potential)")
 	f.BoolVar(&o.ranges, "ranges", false, fmt.Sprintf("compute rate ranges and node prices even for networks over %d lanes (they are computed by default below that)", autoRangeLanes))
 	f.BoolVar(&o.noRanges, "no-ranges", false, "skip the rate ranges and node prices")
-	f.StringVar(&o.shortfall, "shortfall-price", "", "allow demand to go unmet at this price per unit; the audit then reports unmet units per node and judges the plan with them priced")
+	f.StringVar(&o.shortfall, "shortfall-price", "", "allow demand to go unmet at this price per unit (a shortfall_price column in the node table overrides it per node); the audit then reports unmet units per node and judges the plan with them priced")
 	f.BoolVar(&o.noSolve, "no-solve", false, "check the plan and its certificate only: skip solving for the optimal cost, the gap and the repair")
 }
 
@@ -239,26 +239,58 @@ func verdictStatus(v string) error {
 }
 
 // withShortfall replaces the loaded network and plan by their versions with
-// priced unmet demand (flow.WithShortfall).
+// priced unmet demand (flow.WithShortfall): price is the default, a
+// shortfall_price column of the node table sets it per node.
 func withShortfall(in *flow.Loaded, price string) error {
+	n := in.Net
 	d, err := flow.ParseDecimal(price)
 	if err != nil || d.Mant < 0 {
 		return fmt.Errorf("--shortfall-price %q: want a non-negative decimal", price)
 	}
-	if int(d.Places) > in.Net.RatePlaces {
-		if err := in.Net.RescaleRate(int(d.Places) - in.Net.RatePlaces); err != nil {
+	per := make([]flow.Decimal, n.NumNodes())
+	given := make([]bool, n.NumNodes())
+	places := int(d.Places)
+	if n.NodeExtra != nil {
+		for c, name := range n.NodeExtra.Names {
+			if strings.ToLower(strings.TrimSpace(name)) != "shortfall_price" {
+				continue
+			}
+			for v, row := range n.NodeExtra.Values {
+				if row == nil || strings.TrimSpace(row[c]) == "" {
+					continue
+				}
+				x, err := flow.ParseDecimal(strings.TrimSpace(row[c]))
+				if err != nil || x.Mant < 0 {
+					return fmt.Errorf("node %q: shortfall_price %q: want a non-negative decimal", n.Nodes[v], row[c])
+				}
+				per[v], given[v] = x, true
+				places = max(places, int(x.Places))
+			}
+		}
+	}
+	if places > n.RatePlaces {
+		if err := n.RescaleRate(places - n.RatePlaces); err != nil {
 			return err
 		}
 	}
-	p, err := d.Scaled(in.Net.RatePlaces)
+	p, err := d.Scaled(n.RatePlaces)
 	if err != nil {
 		return fmt.Errorf("--shortfall-price %q: %w", price, err)
 	}
-	ext, err := flow.WithShortfall(in.Net, p, nil)
+	prices := make([]int64, n.NumNodes())
+	for v := range prices {
+		prices[v] = -1 // the default
+		if given[v] {
+			if prices[v], err = per[v].Scaled(n.RatePlaces); err != nil {
+				return fmt.Errorf("node %q: shortfall_price: %w", n.Nodes[v], err)
+			}
+		}
+	}
+	ext, err := flow.WithShortfall(n, p, prices)
 	if err != nil {
 		return err
 	}
-	in.Plan.Flow = flow.ExtendPlan(in.Net, ext, in.Plan.Flow)
+	in.Plan.Flow = flow.ExtendPlan(n, ext, in.Plan.Flow)
 	in.Net = ext
 	return nil
 }
