@@ -4,6 +4,7 @@ import (
 	"fmt"
 	"math"
 	"math/bits"
+	"slices"
 )
 
 // Status is the outcome of Solve.
@@ -44,16 +45,20 @@ type CycleStep struct {
 type SolveOptions struct {
 	// Start is a plan (scaled flows, one per lane) to start from. When it
 	// is feasible (bounds and balances, including the excess-supply rule)
-	// the simplex starts from it: its lanes strictly between their bounds
-	// form the first tree where they can (without cycles; a lane that
-	// would close a cycle is pivoted in or out first), and the rest of the
-	// tree is completed with artificial lanes of zero flow. Otherwise
+	// the simplex starts from it (see "Warm start" at Solve). Otherwise
 	// (including a Start of the wrong length, or one whose node balances
-	// overflow) the solve starts from scratch and WarmStarted is false.
+	// overflow, or a lane without capacity carrying NoLimit) the solve
+	// starts from scratch and WarmStarted is false.
 	Start []int64
 	// Progress, if non-nil, is called every 16384 pivots with the number
-	// of pivots so far.
-	Progress func(pivots int64)
+	// of pivots so far and the cost of the current plan (cost scale
+	// QtyPlaces+RatePlaces, lane minimums included; the objective never
+	// increases from one call to the next). It is called only in phase
+	// two, while the current flows meet every supply and demand: pivots of
+	// a phase one (from scratch, while artificial flow remains) are
+	// counted but not reported. The cost is kept up to date per pivot
+	// (flow moved times reduced cost), not recomputed.
+	Progress func(pivots int64, cost Wide)
 }
 
 // Solution is the result of Solve.
@@ -104,7 +109,8 @@ const (
 )
 
 // inf is the capacity of an arc without capacity and the "no limit" value
-// of a residual.
+// of a residual. It equals NoLimit, so lane capacities can be read from
+// Network.Upper when no lane has a minimum.
 const inf = math.MaxInt64
 
 // driftLimit bounds the drift of p(R) in unchecked arithmetic: with
@@ -122,6 +128,12 @@ const progressEvery = 1 << 14
 // hold arc v->H per origin (only under excess supply), then one artificial
 // arc between every non-root node and R.
 //
+// Lane data are read from the Network's arrays (Tail, Head, Rate, and
+// Upper as the capacity when no lane has a minimum); only flows and states
+// are the solver's own, plus a shifted copy of the capacities when some
+// lane has a minimum. Hold and artificial arcs (index a >= m) live in the
+// x* arrays at a-m.
+//
 // The spanning tree is rooted at R and stored as: parent, pred (the tree
 // arc joining a node to its parent), up (pred runs from the node to its
 // parent), thread (preorder successor, circular), rthread (preorder
@@ -131,6 +143,7 @@ type simplex struct {
 	net *Network
 
 	m         int // lanes
+	na        int // all arcs
 	holdStart int // first hold arc
 	artStart  int // first artificial arc
 	nNodes    int // nodes including H, excluding R
@@ -138,11 +151,17 @@ type simplex struct {
 	hold      int32 // H, or -1
 	holdFrom  []NodeID
 
-	src, tgt []int32
-	cost     []int64
-	cap      []int64
-	flow     []int64
-	state    []int8
+	tail, head []int32 // lanes: the Network's arrays
+	rate       []int64 // lanes: Network.Rate
+	cost       []int64 // lanes: costs of the current phase (rate, or zero)
+	cap        []int64 // lanes: capacity above the minimum (inf: none)
+	shifted    bool    // some lane has a minimum: cap is a copy
+	xsrc, xtgt []int32 // hold and artificial arcs, at a-m
+	xcost      []int64
+	xcap       []int64
+
+	flow  []int64 // all arcs, above the minimum
+	state []int8  // all arcs
 
 	parent, pred, thread, rthread, size, last []int32
 	up                                        []bool
@@ -162,11 +181,43 @@ type simplex struct {
 
 	treeSet  bool
 	pivots   int64
-	progress func(int64)
+	progress func(int64, Wide)
 	// drift bounds |p(R)| after shifts of the rest of the tree.
 	drift int64
 
+	// obj is Σ cost·flow over all arcs for the current phase's costs plus
+	// Σ rate·minimum, kept per pivot; objOK is false when it is not known
+	// (a phase one without lane costs, or an overflow). artTotal is the
+	// total artificial flow.
+	obj      Wide
+	objOK    bool
+	artTotal int64
+
 	cycle []CycleStep
+}
+
+// ends returns the tail and head of arc a.
+func (s *simplex) ends(a int32) (int32, int32) {
+	if int(a) < s.m {
+		return s.tail[a], s.head[a]
+	}
+	return s.xsrc[int(a)-s.m], s.xtgt[int(a)-s.m]
+}
+
+// capOf returns the capacity of arc a above its minimum.
+func (s *simplex) capOf(a int32) int64 {
+	if int(a) < s.m {
+		return s.cap[a]
+	}
+	return s.xcap[int(a)-s.m]
+}
+
+// costOf returns the cost of arc a in the current phase.
+func (s *simplex) costOf(a int32) int64 {
+	if int(a) < s.m {
+		return s.cost[a]
+	}
+	return s.xcost[int(a)-s.m]
 }
 
 // Solve finds a minimum-cost plan for n with a primal network simplex on
@@ -193,7 +244,7 @@ type simplex struct {
 // under excess supply every origin is also joined to H). Each component is
 // shifted so that p(H) = 0 when it holds H; otherwise so that the smallest
 // potential among its origins is 0, or, with no origin, the smallest
-// potential among its nodes. The result depends only on n and Start.
+// potential among its nodes. The result depends only on n and opt.
 //
 // Shortfall (Infeasible): let b'(v) be Supply[v] minus the minimums of the
 // lanes leaving v plus the minimums of the lanes entering v. Over plans
@@ -213,31 +264,68 @@ type simplex struct {
 // cost 1 on the artificial arcs and 0 on the lanes), then finishes with
 // artificial arcs of cost 0 that keep zero flow, so no potential carries
 // M. Flows and potentials are exact int64; a sum that could overflow
-// returns an error wrapping ErrOverflow, never a wrong answer.
+// returns an error wrapping ErrOverflow, never a wrong answer. The cost
+// is kept per pivot (flow moved times the entering lane's reduced cost)
+// in 128 bits, not recomputed at the end.
+//
+// Warm start (opt.Start feasible): one pass over the lanes checks the
+// lanes (as n.Validate) and the plan, sets the flows, the plan's cost and
+// the lanes strictly between their bounds (free), and counts the lanes at
+// a bound per node. The free lanes, in lane order while they close no
+// cycle, form a forest; a free lane closing a cycle is pivoted in at once
+// (in a tree of the forest's parts hung from R), which cancels the cycle.
+// A second pass lists the lanes at a bound by the node their spare
+// direction leads to (zero flow: the head; full: the tail) and finds
+// those inside a part of the forest whose reduced cost, from the forest
+// alone, has the wrong sign: each closes a cycle of negative cost with
+// the forest, and they are pivoted in the same way, most violating first.
+// The parts are then joined into a strongly feasible tree by a
+// label-correcting shortest-path search (first-in first-out, with subtree
+// disassembly) that gives every part the highest potentials its lanes at
+// a bound allow, hanging it below a neighbour through such a lane with
+// reduced cost 0 in the direction in which it can still move; the search
+// starts from H under excess supply, else from the largest part, and
+// parts it cannot reach hang from R by artificial arcs of zero flow (never
+// used again). From an optimal plan this gives an optimal tree. Lanes the
+// search finds closing cycles of negative cost (it refuses them) are
+// pivoted into that tree and the search is run once more from the new
+// plan (maxRounds); then block search finishes. A plan that is optimal
+// except for a few cycles thus needs two or three passes over the lanes,
+// one or two searches over the lanes at a bound, a few pivots per cycle
+// and the final pricing. Cold and warm solves reach the same optimal cost
+// (the plans and potentials may differ where the optimum is not unique).
 //
 // Cost: each pivot takes O(sqrt(|E|)) arc scans plus time linear in the
 // length of the cycle and the size of the moved subtree; the number of
 // pivots is finite but not polynomially bounded in the worst case (in
 // practice a small multiple of |V|); a warm start adds O(|V|+|E|) to build
-// its first tree. Memory: about 42 bytes per lane and 130 bytes per node,
-// the Solution included, besides the Network (a warm start adds up to
-// about 20 bytes per lane while it builds its tree).
-//
-// Warm start (opt.Start feasible): its free lanes, taken in lane order
-// while they close no cycle, form a forest; components are joined by
-// lanes at a bound, chosen breadth-first from the highest bound they put
-// on the potentials, or else hang from R by artificial arcs of zero flow
-// (never used again). Free lanes closing a cycle are pivoted in; if there
-// were any, the tree is rebuilt once from the resulting flows. The lanes
-// eligible in that tree are pivoted on in lane order, then block search
-// finishes. Cold and warm solves reach the same optimal cost (the plans
-// and potentials may differ where the optimum is not unique).
+// its first tree (each search is capped at about eight passes over the
+// lanes at a bound). Memory: the solver reads the Network's lane arrays
+// in place and keeps 9 bytes per lane (flows and states; plus 8 more, a
+// copy of the capacities above the minimums, when some lane has a
+// minimum) and about 150 bytes per node; a warm start adds 16 bytes per
+// lane at a bound while it builds its tree. The Solution adds 1 byte per lane (InTree), and 8 per lane for
+// Flow only when some lane has a minimum (otherwise Flow is the solver's
+// flow array).
 //
 // The error is non-nil only when n is invalid (n.Validate) or a value
 // overflows; infeasible and unbounded problems are Status values.
 func Solve(n *Network, opt SolveOptions) (*Solution, error) {
-	if err := n.Validate(); err != nil {
-		return nil, err
+	// A warm start validates the lanes in its first pass (one pass less);
+	// otherwise, or when that pass stops early, n.Validate does.
+	tryWarm := opt.Start != nil && len(opt.Start) == len(n.Tail) && sameShape(n)
+	validated := false
+	validate := func() error {
+		if validated {
+			return nil
+		}
+		validated = true
+		return n.Validate()
+	}
+	if !tryWarm {
+		if err := validate(); err != nil {
+			return nil, err
+		}
 	}
 	supply, demand, err := n.Totals()
 	if err != nil {
@@ -250,41 +338,24 @@ func Solve(n *Network, opt SolveOptions) (*Solution, error) {
 	s.progress = opt.Progress
 	sol := &Solution{}
 
-	maxRate := int64(0)
-	for _, r := range n.Rate {
-		if r == math.MinInt64 {
-			return nil, fmt.Errorf("flow: solve: rate %d: %w", r, ErrOverflow)
-		}
-		maxRate = max(maxRate, abs64(r))
-	}
-	// Big-M fits when 4(N+1)·maxRate + 4 is representable (bounds on the
-	// potentials and reduced costs with artificial cost N·maxRate+1).
-	nn := int64(s.nNodes)
-	bigM, okM := int64(0), false
-	if v, err := MulChecked(4*(nn+1), maxRate); err == nil && v <= math.MaxInt64-4 {
-		bigM, okM = nn*maxRate+1, true
-	}
-	// Phase two needs (2N+3)·maxRate representable to skip checks.
-	if v, err := MulChecked(2*nn+3, maxRate); err != nil || v < 0 {
-		s.checked = true
-	}
-
-	if supply < demand {
-		// Infeasible in any case; find the shortfall.
-		if err := s.phaseOne(); err != nil {
-			return nil, err
-		}
-		return s.infeasible(sol)
-	}
-
 	warm := false
 	var superbasic []int32
-	if opt.Start != nil {
-		warm, superbasic = s.warmStart(opt.Start)
+	if tryWarm && supply >= demand {
+		var unb bool
+		warm, superbasic, unb, err = s.warmStart(opt.Start)
+		if err != nil {
+			return nil, err
+		}
+		if unb {
+			sol.WarmStarted = true
+			sol.Status = Unbounded
+			sol.Cycle = s.cycle
+			sol.Pivots = s.pivots
+			return sol, nil
+		}
 	}
 	sol.WarmStarted = warm
-	var eligible []int32
-	for round := 0; warm && round < 2; round++ {
+	if warm {
 		if err := s.computePotentialsChecked(); err != nil {
 			return nil, err
 		}
@@ -292,17 +363,7 @@ func Solve(n *Network, opt SolveOptions) (*Solution, error) {
 		// each in, towards lower cost, until it or a tree arc reaches a
 		// bound.
 		for _, a := range superbasic {
-			r, err := s.reducedChecked(a)
-			if err != nil {
-				return nil, err
-			}
-			// Towards lower cost; on a tie, towards less flow (a finite
-			// limit, so a zero-cost cycle is never called unbounded).
-			dir := stateUpper
-			if r < 0 {
-				dir = stateLower
-			}
-			unb, err := s.pivot(a, dir, r)
+			unb, err := s.pivotFree(a)
 			if err != nil {
 				return nil, err
 			}
@@ -313,19 +374,32 @@ func Solve(n *Network, opt SolveOptions) (*Solution, error) {
 				return sol, nil
 			}
 		}
-		var err error
-		if eligible, err = s.eligibleArcs(); err != nil {
+	} else {
+		if err := validate(); err != nil {
 			return nil, err
 		}
-		// Those pivots may leave perturbed lanes in the tree (ties) and
-		// the duals far off: then rebuild the tree once from the flows,
-		// now basic.
-		if round > 0 || len(superbasic) == 0 || len(eligible) <= max(64, s.nNodes/16) {
-			break
+		maxRate, err := maxAbsRate(n.Rate)
+		if err != nil {
+			return nil, err
 		}
-		superbasic = s.buildWarmTree()
-	}
-	if !warm {
+		// Big-M fits when 4(N+1)·maxRate + 4 is representable (bounds on
+		// the potentials and reduced costs with artificial cost
+		// N·maxRate+1).
+		nn := int64(s.nNodes)
+		bigM, okM := int64(0), false
+		if v, err := MulChecked(4*(nn+1), maxRate); err == nil && v <= math.MaxInt64-4 {
+			bigM, okM = nn*maxRate+1, true
+		}
+		s.checked = needChecks(nn, maxRate)
+		if supply < demand {
+			// Infeasible in any case; find the shortfall.
+			s.setShiftedCaps()
+			if err := s.phaseOne(); err != nil {
+				return nil, err
+			}
+			return s.infeasible(sol)
+		}
+		s.setShiftedCaps()
 		if err := s.coldStart(); err != nil {
 			return nil, err
 		}
@@ -357,17 +431,11 @@ func Solve(n *Network, opt SolveOptions) (*Solution, error) {
 			return s.infeasible(sol)
 		}
 		s.enterPhaseTwo()
+		if err := s.computePotentialsChecked(); err != nil {
+			return nil, err
+		}
 	}
-	if err := s.computePotentialsChecked(); err != nil {
-		return nil, err
-	}
-	unb, err := false, error(nil)
-	if warm {
-		unb, err = s.warmPass(eligible)
-	}
-	if !unb && err == nil {
-		unb, err = s.run()
-	}
+	unb, err := s.run()
 	if err != nil {
 		return nil, err
 	}
@@ -380,8 +448,38 @@ func Solve(n *Network, opt SolveOptions) (*Solution, error) {
 	return s.optimal(sol)
 }
 
-// newSimplex builds the extended network with every lane at its (shifted)
-// lower bound. The tree is not set.
+// sameShape reports whether n's arrays have the lengths n.Validate
+// requires (the per-lane checks are left to the caller).
+func sameShape(n *Network) bool {
+	m := len(n.Tail)
+	return len(n.Head) == m && len(n.Lower) == m && len(n.Upper) == m && len(n.Rate) == m &&
+		(n.LaneNames == nil || len(n.LaneNames) == m) && len(n.Supply) == len(n.Nodes)
+}
+
+// maxAbsRate returns the largest |rate|, or ErrOverflow for a rate of
+// MinInt64.
+func maxAbsRate(rate []int64) (int64, error) {
+	var mx int64
+	for _, r := range rate {
+		if r == math.MinInt64 {
+			return 0, fmt.Errorf("flow: solve: rate %d: %w", r, ErrOverflow)
+		}
+		mx = max(mx, abs64(r))
+	}
+	return mx, nil
+}
+
+// needChecks reports whether potentials over nn nodes with rates up to
+// maxRate need checked arithmetic: phase two skips the checks when
+// (2N+3)·maxRate is representable.
+func needChecks(nn, maxRate int64) bool {
+	v, err := MulChecked(2*nn+3, maxRate)
+	return err != nil || v < 0
+}
+
+// newSimplex builds the extended network. Lane flows are zero and lane
+// states are not set (coldStart or warmStart sets them); capacities are
+// read from n.Upper until setShiftedCaps. The tree is not set.
 func newSimplex(n *Network, hold bool, excess int64) (*simplex, error) {
 	nv, m := len(n.Nodes), len(n.Tail)
 	s := &simplex{net: n, m: m, hold: -1}
@@ -404,38 +502,23 @@ func newSimplex(n *Network, hold bool, excess int64) (*simplex, error) {
 	s.holdStart = m
 	s.artStart = m + nh
 	na := m + nh + nNodes
-	s.src = make([]int32, na)
-	s.tgt = make([]int32, na)
-	s.cost = make([]int64, na)
-	s.cap = make([]int64, na)
+	s.na = na
+	s.tail, s.head, s.rate, s.cost, s.cap = n.Tail, n.Head, n.Rate, n.Rate, n.Upper
+	nx := nh + nNodes
+	s.xsrc = make([]int32, nx)
+	s.xtgt = make([]int32, nx)
+	s.xcost = make([]int64, nx)
+	s.xcap = make([]int64, nx)
 	s.flow = make([]int64, na)
 	s.state = make([]int8, na)
-	copy(s.src, n.Tail)
-	copy(s.tgt, n.Head)
-	copy(s.cost, n.Rate)
-	for a := 0; a < m; a++ {
-		if n.Upper[a] == NoLimit {
-			s.cap[a] = inf
-		} else {
-			s.cap[a] = n.Upper[a] - n.Lower[a]
-		}
-	}
 	for i, v := range s.holdFrom {
-		a := s.holdStart + i
-		s.src[a], s.tgt[a] = v, s.hold
-		s.cap[a] = n.Supply[v]
+		s.xsrc[i], s.xtgt[i] = v, s.hold
+		s.xcap[i] = n.Supply[v]
 	}
 	for v := 0; v < nNodes; v++ {
-		a := s.artStart + v
-		s.src[a], s.tgt[a] = int32(v), s.root
-		s.cap[a] = inf
-	}
-	for a := range s.state[:s.artStart] {
-		if s.cap[a] == 0 {
-			s.state[a] = stateTree // fixed
-		} else {
-			s.state[a] = stateLower
-		}
+		j := nh + v
+		s.xsrc[j], s.xtgt[j] = int32(v), s.root
+		s.xcap[j] = inf
 	}
 	nt := nNodes + 1
 	s.parent = make([]int32, nt)
@@ -459,6 +542,47 @@ func newSimplex(n *Network, hold bool, excess int64) (*simplex, error) {
 	return s, nil
 }
 
+// setShiftedCaps copies the lane capacities above the minimums when some
+// lane has a minimum (otherwise n.Upper serves: NoLimit == inf). O(|E|).
+func (s *simplex) setShiftedCaps() {
+	n := s.net
+	hasLower := false
+	for _, l := range n.Lower {
+		if l != 0 {
+			hasLower = true
+			break
+		}
+	}
+	if !hasLower || s.shifted {
+		return
+	}
+	s.shifted = true
+	s.cap = make([]int64, s.m)
+	for a, u := range n.Upper {
+		if u == NoLimit {
+			s.cap[a] = inf
+		} else {
+			s.cap[a] = u - n.Lower[a]
+		}
+	}
+}
+
+// initLanes puts every lane and hold arc at zero flow (above the minimum):
+// at the lower bound, or fixed when its capacity is zero. O(|E|).
+func (s *simplex) initLanes() {
+	clear(s.flow[:s.artStart])
+	for a, c := range s.cap {
+		if c == 0 {
+			s.state[a] = stateTree // fixed
+		} else {
+			s.state[a] = stateLower
+		}
+	}
+	for a := s.holdStart; a < s.artStart; a++ {
+		s.state[a] = stateLower // capacity Supply > 0
+	}
+}
+
 // shiftedSupply returns b'(v) for every non-root node: Supply minus the
 // minimums leaving plus the minimums entering; H gets -excess.
 func (s *simplex) shiftedSupply() ([]int64, error) {
@@ -466,15 +590,17 @@ func (s *simplex) shiftedSupply() ([]int64, error) {
 	b := make([]int64, s.nNodes)
 	copy(b, n.Supply)
 	var err error
-	for a, l := range n.Lower {
-		if l == 0 {
-			continue
-		}
-		if b[n.Tail[a]], err = SubChecked(b[n.Tail[a]], l); err != nil {
-			return nil, fmt.Errorf("flow: solve: supply net of lane minimums at node %s: %w", n.Nodes[n.Tail[a]], err)
-		}
-		if b[n.Head[a]], err = AddChecked(b[n.Head[a]], l); err != nil {
-			return nil, fmt.Errorf("flow: solve: supply net of lane minimums at node %s: %w", n.Nodes[n.Head[a]], err)
+	if s.shifted {
+		for a, l := range n.Lower {
+			if l == 0 {
+				continue
+			}
+			if b[n.Tail[a]], err = SubChecked(b[n.Tail[a]], l); err != nil {
+				return nil, fmt.Errorf("flow: solve: supply net of lane minimums at node %s: %w", n.Nodes[n.Tail[a]], err)
+			}
+			if b[n.Head[a]], err = AddChecked(b[n.Head[a]], l); err != nil {
+				return nil, fmt.Errorf("flow: solve: supply net of lane minimums at node %s: %w", n.Nodes[n.Head[a]], err)
+			}
 		}
 	}
 	if s.hold >= 0 {
@@ -488,6 +614,7 @@ func (s *simplex) shiftedSupply() ([]int64, error) {
 // artificial arc, directed to R when b' >= 0 and from R otherwise, carrying
 // |b'|. It is strongly feasible.
 func (s *simplex) coldStart() error {
+	s.initLanes()
 	b, err := s.shiftedSupply()
 	if err != nil {
 		return err
@@ -498,6 +625,7 @@ func (s *simplex) coldStart() error {
 			return fmt.Errorf("flow: solve: total supply net of lane minimums: %w", ErrOverflow)
 		}
 	}
+	s.artTotal = total
 	s.initArtTree(b)
 	return nil
 }
@@ -506,12 +634,13 @@ func (s *simplex) initArtTree(b []int64) {
 	r := s.root
 	for v := 0; v < s.nNodes; v++ {
 		a := int32(s.artStart + v)
+		j := int(a) - s.m
 		if b[v] >= 0 {
-			s.src[a], s.tgt[a] = int32(v), r
+			s.xsrc[j], s.xtgt[j] = int32(v), r
 			s.flow[a] = b[v]
 			s.up[v] = true
 		} else {
-			s.src[a], s.tgt[a] = r, int32(v)
+			s.xsrc[j], s.xtgt[j] = r, int32(v)
 			s.flow[a] = -b[v]
 			s.up[v] = false
 		}
@@ -537,16 +666,38 @@ func (s *simplex) initArtTree(b []int64) {
 }
 
 // setCosts sets the costs of phase one: the lanes' rates (or 0 when
-// !real) and artCost on the artificial arcs; hold arcs cost 0.
+// !real) and artCost on the artificial arcs; hold arcs cost 0. With real
+// costs the objective is known from the current flows (lanes at zero
+// flow above their minimums, as after coldStart).
 func (s *simplex) setCosts(real bool, artCost int64) {
 	if real {
-		copy(s.cost, s.net.Rate)
+		s.cost = s.rate
 	} else {
-		clear(s.cost[:s.m])
+		s.cost = make([]int64, s.m)
 	}
-	for a := s.artStart; a < len(s.cost); a++ {
-		s.cost[a] = artCost
+	for a := s.holdStart; a < s.artStart; a++ {
+		s.xcost[a-s.m] = 0
 	}
+	for a := s.artStart; a < s.na; a++ {
+		s.xcost[a-s.m] = artCost
+	}
+	s.objOK = false
+	if real {
+		base, err := s.lowerCost()
+		if err == nil {
+			s.obj, err = base.Add(MulWide(artCost, s.artTotal))
+		}
+		s.objOK = err == nil
+	}
+}
+
+// lowerCost returns Σ rate·minimum over the lanes. O(|E|) when some lane
+// has a minimum.
+func (s *simplex) lowerCost() (Wide, error) {
+	if !s.shifted {
+		return Wide{}, nil
+	}
+	return totalCost(s.rate, s.net.Lower)
 }
 
 // phaseOne minimises the total artificial flow from the current tree (lane
@@ -571,7 +722,7 @@ func (s *simplex) phaseOne() error {
 // |b'(v)|, and their sum was checked when the tree was built).
 func (s *simplex) artFlow() int64 {
 	var t int64
-	for a := s.artStart; a < len(s.flow); a++ {
+	for a := s.artStart; a < s.na; a++ {
 		t += s.flow[a]
 	}
 	return t
@@ -580,14 +731,17 @@ func (s *simplex) artFlow() int64 {
 // enterPhaseTwo gives the artificial arcs cost 0 and keeps them at zero
 // flow: those in the tree are directed to R (zero flow, no capacity, so
 // any cycle through R is blocked on its way down), the others are fixed.
+// The objective becomes the plan's cost (recomputed in O(|E|) when phase
+// one had no lane costs).
 func (s *simplex) enterPhaseTwo() {
-	copy(s.cost, s.net.Rate)
+	s.cost = s.rate
 	for v := 0; v < s.nNodes; v++ {
 		a := s.artStart + v
-		s.cost[a] = 0
+		j := a - s.m
+		s.xcost[j] = 0
 		if s.pred[v] == int32(a) {
 			if !s.up[v] {
-				s.src[a], s.tgt[a] = int32(v), s.root
+				s.xsrc[j], s.xtgt[j] = int32(v), s.root
 				s.up[v] = true
 			}
 		} else {
@@ -595,6 +749,18 @@ func (s *simplex) enterPhaseTwo() {
 		}
 	}
 	s.artFixed = true
+	s.artTotal = 0
+	if !s.objOK {
+		base, err := s.lowerCost()
+		var c Wide
+		if err == nil {
+			c, err = totalCost(s.rate, s.flow[:s.m])
+		}
+		if err == nil {
+			s.obj, err = base.Add(c)
+		}
+		s.objOK = err == nil
+	}
 }
 
 // computePotentials sets p(R) = 0 and every other potential from its
@@ -607,9 +773,9 @@ func (s *simplex) computePotentials() {
 	for v := s.thread[r]; v != r; v = s.thread[v] {
 		a := s.pred[v]
 		if s.up[v] {
-			s.pot[v] = s.pot[s.parent[v]] - s.cost[a]
+			s.pot[v] = s.pot[s.parent[v]] - s.costOf(a)
 		} else {
-			s.pot[v] = s.pot[s.parent[v]] + s.cost[a]
+			s.pot[v] = s.pot[s.parent[v]] + s.costOf(a)
 		}
 	}
 }
@@ -626,9 +792,9 @@ func (s *simplex) computePotentialsChecked() error {
 	for v := s.thread[r]; v != r; v = s.thread[v] {
 		a := s.pred[v]
 		if s.up[v] {
-			s.pot[v], err = SubChecked(s.pot[s.parent[v]], s.cost[a])
+			s.pot[v], err = SubChecked(s.pot[s.parent[v]], s.costOf(a))
 		} else {
-			s.pot[v], err = AddChecked(s.pot[s.parent[v]], s.cost[a])
+			s.pot[v], err = AddChecked(s.pot[s.parent[v]], s.costOf(a))
 		}
 		if err != nil {
 			return fmt.Errorf("flow: solve: node potential: %w", err)
@@ -662,102 +828,75 @@ func (s *simplex) run() (bool, error) {
 	}
 }
 
-// eligibleArcs returns the arcs eligible to enter, in index order.
-func (s *simplex) eligibleArcs() ([]int32, error) {
-	var list []int32
-	if !s.checked {
-		state, cost, src, tgt, pot := s.state, s.cost, s.src, s.tgt, s.pot
-		for e := range state {
-			if int64(state[e])*(cost[e]+pot[src[e]]-pot[tgt[e]]) < 0 {
-				list = append(list, int32(e))
-			}
-		}
-		return list, nil
-	}
-	for e := range s.state {
-		if s.state[e] == stateTree {
-			continue
-		}
-		r, err := s.reducedChecked(int32(e))
-		if err != nil {
-			return nil, err
-		}
-		if int64(s.state[e])*r < 0 {
-			list = append(list, int32(e))
-		}
-	}
-	return list, nil
-}
-
-// warmPass pivots, in index order, on the arcs of list (those eligible in
-// the first tree of a warm start), each if still eligible when its turn
-// comes; block search then finishes. Near an optimum the eligible arcs are
-// few and block search would scan most arcs to find each.
-func (s *simplex) warmPass(list []int32) (bool, error) {
-	for _, e := range list {
-		r, err := s.reducedChecked(e)
-		if err != nil {
-			return false, err
-		}
-		if int64(s.state[e])*r >= 0 {
-			continue
-		}
-		if unb, err := s.pivot(e, s.state[e], r); err != nil || unb {
-			return unb, err
-		}
-	}
-	return false, nil
-}
-
 // findEntering returns an eligible arc and its reduced cost by block
 // search, or -1: the arcs are scanned cyclically from where the last
 // search stopped, in blocks of s.block arcs; the most violating arc of the
-// first block holding one is chosen.
+// first block holding one is chosen. Lanes and the other arcs are scanned
+// as two runs of one cyclic order.
 func (s *simplex) findEntering() (int32, int64) {
-	state := s.state
-	na := len(state)
-	cost, src, tgt, pot := s.cost[:na], s.src[:na], s.tgt[:na], s.pot
-	best, bestV := -1, int64(0)
+	na, m := s.na, s.m
+	best, bestV := int32(-1), int64(0)
 	cnt := s.block
-	for e := s.next; e < na; e++ {
-		v := int64(state[e]) * (cost[e] + pot[src[e]] - pot[tgt[e]])
-		if v < bestV {
-			bestV, best = v, e
+	e := s.next
+	for done := 0; done < na; {
+		end := na
+		if e < m {
+			end = m
 		}
-		cnt--
-		if cnt == 0 {
-			if best >= 0 {
-				s.next = e + 1
-				return int32(best), bestV * int64(state[best])
+		end = min(end, e+na-done)
+		stop := -1
+		if e < m {
+			best, bestV, cnt, stop = scanArcs(s.state[:m], s.cost[:m], s.tail[:m], s.head[:m], s.pot, e, end, 0, best, bestV, cnt, s.block)
+		} else {
+			best, bestV, cnt, stop = scanArcs(s.state[m:], s.xcost, s.xsrc, s.xtgt, s.pot, e-m, end-m, m, best, bestV, cnt, s.block)
+		}
+		if stop >= 0 {
+			if stop == na {
+				stop = 0
 			}
-			cnt = s.block
+			s.next = stop
+			return best, bestV * int64(s.state[best])
 		}
-	}
-	for e := 0; e < s.next; e++ {
-		v := int64(state[e]) * (cost[e] + pot[src[e]] - pot[tgt[e]])
-		if v < bestV {
-			bestV, best = v, e
-		}
-		cnt--
-		if cnt == 0 {
-			if best >= 0 {
-				s.next = e + 1
-				return int32(best), bestV * int64(state[best])
-			}
-			cnt = s.block
+		done += end - e
+		e = end
+		if e == na {
+			e = 0
 		}
 	}
 	if best >= 0 {
 		s.next = 0
-		return int32(best), bestV * int64(state[best])
+		return best, bestV * int64(s.state[best])
 	}
 	return -1, 0
+}
+
+// scanArcs is the inner loop of findEntering over arcs lo..hi-1 of one
+// run (arc numbers base+lo..base+hi-1): it keeps the most violating arc
+// (best, with state times reduced cost bestV) and counts down the block;
+// stop is the arc after the block end when a block ends holding an
+// eligible arc, else -1.
+func scanArcs(state []int8, cost []int64, src, tgt []int32, pot []int64, lo, hi, base int, best int32, bestV int64, cnt, block int) (int32, int64, int, int) {
+	state, cost, src, tgt = state[:hi], cost[:hi], src[:hi], tgt[:hi]
+	for e := lo; e < hi; e++ {
+		v := int64(state[e]) * (cost[e] + pot[src[e]] - pot[tgt[e]])
+		if v < bestV {
+			bestV, best = v, int32(base+e)
+		}
+		cnt--
+		if cnt == 0 {
+			if best >= 0 {
+				return best, bestV, cnt, base + e + 1
+			}
+			cnt = block
+		}
+	}
+	return best, bestV, cnt, -1
 }
 
 // findEnteringChecked is findEntering with overflow checks on the reduced
 // costs (for networks whose rates are close to the int64 limit).
 func (s *simplex) findEnteringChecked() (int32, int64, error) {
-	na := len(s.state)
+	na := s.na
 	best, bestV := -1, int64(0)
 	cnt := s.block
 	for i := 0; i < na; i++ {
@@ -803,9 +942,10 @@ func (s *simplex) findEnteringChecked() (int32, int64, error) {
 }
 
 func (s *simplex) reducedChecked(e int32) (int64, error) {
-	r, err := AddChecked(s.cost[e], s.pot[s.src[e]])
+	t, h := s.ends(e)
+	r, err := AddChecked(s.costOf(e), s.pot[t])
 	if err == nil {
-		r, err = SubChecked(r, s.pot[s.tgt[e]])
+		r, err = SubChecked(r, s.pot[h])
 	}
 	if err != nil {
 		return 0, fmt.Errorf("flow: solve: reduced cost: %w", err)
@@ -814,16 +954,14 @@ func (s *simplex) reducedChecked(e int32) (int64, error) {
 }
 
 // pivot pushes flow around the cycle closed by arc in (dir +1: more flow
-// on in, -1: less) with the reduced cost r of in, and updates the tree.
+// on in, -1: less) with the reduced cost r of in, and updates the tree,
+// the objective (by the flow moved times r) and the artificial flow.
 // It returns true when the cycle has no limit (then s.cycle is set and
 // nothing changes).
 func (s *simplex) pivot(in int32, dir int8, r int64) (bool, error) {
 	s.pivots++
-	if s.progress != nil && s.pivots&(progressEvery-1) == 0 {
-		s.progress(s.pivots)
-	}
-	parent, pred, up, flow, cp := s.parent, s.pred, s.up, s.flow, s.cap
-	first, second := s.src[in], s.tgt[in]
+	parent, pred, up, flow := s.parent, s.pred, s.up, s.flow
+	first, second := s.ends(in)
 	if dir < 0 {
 		first, second = second, first
 	}
@@ -849,10 +987,10 @@ func (s *simplex) pivot(in int32, dir int8, r int64) (bool, error) {
 		var d int64
 		if up[u] {
 			d = flow[a]
-		} else if cp[a] == inf {
+		} else if c := s.capOf(a); c == inf {
 			d = inf
 		} else {
-			d = cp[a] - flow[a]
+			d = c - flow[a]
 		}
 		if d < delta {
 			delta, leave, side = d, u, 1
@@ -860,10 +998,10 @@ func (s *simplex) pivot(in int32, dir int8, r int64) (bool, error) {
 	}
 	var dIn int64
 	if dir > 0 {
-		if cp[in] == inf {
+		if c := s.capOf(in); c == inf {
 			dIn = inf
 		} else {
-			dIn = cp[in] - flow[in]
+			dIn = c - flow[in]
 		}
 	} else {
 		dIn = flow[in]
@@ -876,10 +1014,10 @@ func (s *simplex) pivot(in int32, dir int8, r int64) (bool, error) {
 		var d int64
 		if !up[u] {
 			d = flow[a]
-		} else if cp[a] == inf {
+		} else if c := s.capOf(a); c == inf {
 			d = inf
 		} else {
-			d = cp[a] - flow[a]
+			d = c - flow[a]
 		}
 		if d <= delta {
 			delta, leave, side = d, u, 2
@@ -893,35 +1031,54 @@ func (s *simplex) pivot(in int32, dir int8, r int64) (bool, error) {
 	if delta > 0 {
 		const maxFlow = math.MaxInt64 - 1
 		if dir > 0 {
-			if cp[in] == inf && flow[in] > maxFlow-delta {
+			if s.capOf(in) == inf && flow[in] > maxFlow-delta {
 				return false, s.flowOverflow(in)
 			}
 			flow[in] += delta
 		} else {
 			flow[in] -= delta
 		}
+		top1, top2 := int32(-1), int32(-1) // nodes below the apex
 		for u := first; u != apex; u = parent[u] {
 			a := pred[u]
 			if up[u] {
 				flow[a] -= delta
 			} else {
-				if cp[a] == inf && flow[a] > maxFlow-delta {
+				if s.capOf(a) == inf && flow[a] > maxFlow-delta {
 					return false, s.flowOverflow(a)
 				}
 				flow[a] += delta
 			}
+			top1 = u
 		}
 		for u := second; u != apex; u = parent[u] {
 			a := pred[u]
 			if up[u] {
-				if cp[a] == inf && flow[a] > maxFlow-delta {
+				if s.capOf(a) == inf && flow[a] > maxFlow-delta {
 					return false, s.flowOverflow(a)
 				}
 				flow[a] += delta
 			} else {
 				flow[a] -= delta
 			}
+			top2 = u
 		}
+		if apex == s.root || int(in) >= s.artStart {
+			s.trackArtificial(in, dir, top1, top2, delta)
+		}
+		if s.objOK {
+			d := MulWide(delta, r)
+			if dir < 0 {
+				d = d.Neg()
+			}
+			var err error
+			if s.obj, err = s.obj.Add(d); err != nil {
+				s.objOK = false
+			}
+		}
+	}
+	if s.progress != nil && s.pivots&(progressEvery-1) == 0 && s.objOK && s.artTotal == 0 {
+		s.progress(s.pivots, s.obj)
 	}
 
 	if side == 0 {
@@ -948,10 +1105,37 @@ func (s *simplex) pivot(in int32, dir int8, r int64) (bool, error) {
 		uIn, vIn = second, first
 	}
 	sigma := r
-	if uIn == s.src[in] {
+	if src, _ := s.ends(in); uIn == src {
 		sigma = -r
 	}
 	return false, s.updateTree(in, uIn, vIn, leave, apex, sigma)
+}
+
+// trackArtificial updates artTotal after delta moved around a cycle: the
+// artificial arcs on it are the entering arc and the tree arcs of the
+// nodes just below R (top1 on the first side, top2 on the second).
+func (s *simplex) trackArtificial(in int32, dir int8, top1, top2 int32, delta int64) {
+	if int(in) >= s.artStart {
+		if dir > 0 {
+			s.artTotal += delta
+		} else {
+			s.artTotal -= delta
+		}
+	}
+	if top1 >= 0 && s.parent[top1] == s.root {
+		if s.up[top1] {
+			s.artTotal -= delta
+		} else {
+			s.artTotal += delta
+		}
+	}
+	if top2 >= 0 && s.parent[top2] == s.root {
+		if s.up[top2] {
+			s.artTotal += delta
+		} else {
+			s.artTotal -= delta
+		}
+	}
 }
 
 func (s *simplex) flowOverflow(a int32) error {
@@ -1050,7 +1234,8 @@ func (s *simplex) updateTree(in, uIn, vIn, uOut, apex int32, sigma int64) error 
 	}
 	par[uIn] = vIn
 	pred[uIn] = in
-	up[uIn] = s.src[in] == uIn
+	srcIn, _ := s.ends(in)
+	up[uIn] = srcIn == uIn
 	sz[uIn] = sN
 	lst[uIn] = endS
 
@@ -1106,7 +1291,7 @@ func (s *simplex) infeasible(sol *Solution) (*Solution, error) {
 	var short int64
 	for v := 0; v < s.nNodes; v++ {
 		a := s.artStart + v
-		if s.src[a] == s.root {
+		if s.xsrc[a-s.m] == s.root {
 			short += s.flow[a] // bounded by the checked total demand
 		}
 	}
@@ -1122,16 +1307,22 @@ func (s *simplex) optimal(sol *Solution) (*Solution, error) {
 	nv, m := len(n.Nodes), s.m
 	sol.Status = Optimal
 	sol.Pivots = s.pivots
-	sol.Flow = make([]int64, m)
-	var err error
-	for a := 0; a < m; a++ {
-		x := s.flow[a] + n.Lower[a] // <= Upper when Upper is finite
-		if s.cap[a] == inf && x < s.flow[a] {
-			return nil, s.flowOverflow(int32(a))
+	if s.shifted {
+		sol.Flow = make([]int64, m)
+		for a := 0; a < m; a++ {
+			x := s.flow[a] + n.Lower[a] // <= Upper when Upper is finite
+			if s.cap[a] == inf && x < s.flow[a] {
+				return nil, s.flowOverflow(int32(a))
+			}
+			sol.Flow[a] = x
 		}
-		sol.Flow[a] = x
+	} else {
+		sol.Flow = s.flow[:m:m]
 	}
-	if sol.Cost, err = totalCost(n.Rate, sol.Flow); err != nil {
+	var err error
+	if s.objOK {
+		sol.Cost = s.obj
+	} else if sol.Cost, err = totalCost(n.Rate, sol.Flow); err != nil {
 		return nil, err
 	}
 	sol.Held = make([]int64, nv)
@@ -1152,7 +1343,9 @@ func (s *simplex) optimal(sol *Solution) (*Solution, error) {
 }
 
 // normalPotentials shifts the tree potentials on each weakly connected
-// component (see Solve).
+// component (see Solve). When R has a single child the tree joins all
+// nodes and the lanes are not read; otherwise one pass over the lanes
+// joins the subtrees of R's children that lanes connect.
 func (s *simplex) normalPotentials() ([]int64, error) {
 	n := s.net
 	nv := len(n.Nodes)
@@ -1181,21 +1374,25 @@ func (s *simplex) normalPotentials() ([]int64, error) {
 	// Nodes below the same child of R are connected by tree arcs; only
 	// lanes between such subtrees need the union-find.
 	label := make([]int32, s.nNodes)
+	children := 0
 	for v := s.thread[s.root]; v != s.root; v = s.thread[v] {
 		if p := s.parent[v]; p == s.root {
 			label[v] = v
+			children++
 		} else {
 			label[v] = label[p]
 			union(v, p)
 		}
 	}
-	for a := 0; a < s.m; a++ {
-		if t, h := n.Tail[a], n.Head[a]; label[t] != label[h] {
-			union(t, h)
+	if children > 1 {
+		for a := 0; a < s.m; a++ {
+			if t, h := n.Tail[a], n.Head[a]; label[t] != label[h] {
+				union(t, h)
+			}
 		}
-	}
-	for _, v := range s.holdFrom {
-		union(v, s.hold)
+		for _, v := range s.holdFrom {
+			union(v, s.hold)
+		}
 	}
 	// Reference potential per component representative.
 	const none = 0 // refKind: 0 none yet, 1 from all nodes, 2 from origins, 3 from H
@@ -1229,64 +1426,156 @@ func (s *simplex) normalPotentials() ([]int64, error) {
 	return out, nil
 }
 
-// warmStart builds a strongly feasible tree from plan x when x is feasible:
-// lanes (and hold arcs) strictly between their bounds, taken in index order
-// while they close no cycle, form a forest; each forest component hangs
-// from R by the artificial arc of its smallest node (zero flow, directed to
-// R). Artificial arcs then keep zero flow (phase two). It returns false
-// when x is not feasible (nothing is changed then), and the free arcs left
-// out of the forest, which the caller pivots in.
-func (s *simplex) warmStart(x []int64) (bool, []int32) {
-	n := s.net
-	m, nv := s.m, len(n.Nodes)
-	if len(x) != m {
-		return false, nil
+// costSum accumulates Σ rate·x (x >= 0) exactly: positive and negative
+// products are summed apart in 128 bits, with a carry check.
+type costSum struct {
+	pHi, pLo, nHi, nLo uint64
+	over               bool
+}
+
+func (c *costSum) add(r, x int64) {
+	var k uint64
+	if r > 0 {
+		hi, lo := bits.Mul64(uint64(r), uint64(x))
+		c.pLo, k = bits.Add64(c.pLo, lo, 0)
+		c.pHi, k = bits.Add64(c.pHi, hi, k)
+	} else {
+		hi, lo := bits.Mul64(uint64(-r), uint64(x))
+		c.nLo, k = bits.Add64(c.nLo, lo, 0)
+		c.nHi, k = bits.Add64(c.nHi, hi, k)
 	}
-	netout := make([]int64, nv)
-	var err error
+	if k != 0 {
+		c.over = true
+	}
+}
+
+func (c *costSum) total() (Wide, error) {
+	if c.over || c.pHi>>63 != 0 || c.nHi>>63 != 0 {
+		return Wide{}, fmt.Errorf("flow: solve: total cost: %w", ErrOverflow)
+	}
+	return Wide{hi: int64(c.pHi), lo: c.pLo}.Sub(Wide{hi: int64(c.nHi), lo: c.nLo})
+}
+
+// totalCost returns Σ rate[a]·x[a] (x >= 0) exactly.
+func totalCost(rate, x []int64) (Wide, error) {
+	var c costSum
+	for a, r := range rate {
+		if f := x[a]; r != 0 && f != 0 {
+			c.add(r, f)
+		}
+	}
+	return c.total()
+}
+
+// warmStart sets the flows from plan x when x is feasible and builds the
+// first tree (see "Warm start" at Solve). It returns false when x is not
+// feasible (flows and states may have been written then: coldStart resets
+// them); otherwise the free arcs left out of the tree, which the caller
+// pivots in, and true when a cycle without limit was found (s.cycle), or
+// an overflow.
+//
+// One pass over the lanes checks x and sets flows, states, the plan's
+// cost and, per node, the number of lanes at a bound whose spare
+// direction leads to it; a second pass lists those lanes. Time and memory
+// O(|V|+|E|).
+func (s *simplex) warmStart(x []int64) (bool, []int32, bool, error) {
+	n := s.net
+	m, nv, nn := s.m, len(n.Nodes), s.nNodes
+	if len(x) != m {
+		return false, nil, false, nil
+	}
+	netout := make([]int64, nn)
+	cnt := make([]int32, nn+1) // lanes at a bound, by node (at v+1)
+	free := make([]int32, 0, 64)
+	var cs costSum
+	tail, head, rate, lower, upper := s.tail[:m], s.head[:m], s.rate[:m], n.Lower[:m], n.Upper[:m]
+	flow, state := s.flow[:m], s.state[:m]
+	x = x[:m]
+	hasLower := false
+	var maxRate uint64
 	for a := 0; a < m; a++ {
-		if x[a] < n.Lower[a] || x[a] > n.Upper[a] {
-			return false, nil
+		xa, lo, up := x[a], lower[a], upper[a]
+		t, h, r := tail[a], head[a], rate[a]
+		// The lane checks of n.Validate and the rate bound are done
+		// here; the caller validates when this pass stops early.
+		if xa < lo || xa > up || xa == inf || lo < 0 || uint32(t) >= uint32(nv) || uint32(h) >= uint32(nv) || r == math.MinInt64 {
+			return false, nil, false, nil
 		}
-		t, h := n.Tail[a], n.Head[a]
-		if netout[t], err = AddChecked(netout[t], x[a]); err != nil {
-			return false, nil
+		maxRate = max(maxRate, uint64(abs64(r)))
+		f, c := xa, up
+		if lo != 0 {
+			hasLower = true
+			f = xa - lo
+			if up != NoLimit {
+				c = up - lo
+			}
 		}
-		if netout[h], err = SubChecked(netout[h], x[a]); err != nil {
-			return false, nil
+		flow[a] = f
+		if xa != 0 {
+			var err error
+			if netout[t], err = AddChecked(netout[t], xa); err != nil {
+				return false, nil, false, nil
+			}
+			if netout[h], err = SubChecked(netout[h], xa); err != nil {
+				return false, nil, false, nil
+			}
+			if r != 0 {
+				cs.add(r, xa)
+			}
+		}
+		switch {
+		case c == 0:
+			state[a] = stateTree // fixed
+		case f == 0:
+			state[a] = stateLower // spare: tail -> head
+			cnt[h+1]++
+		case f == c:
+			state[a] = stateUpper // spare: head -> tail
+			cnt[t+1]++
+		default:
+			state[a] = stateTree
+			free = append(free, int32(a))
 		}
 	}
 	for v := 0; v < nv; v++ {
 		b := n.Supply[v]
 		if s.hold >= 0 && b > 0 {
 			if netout[v] < 0 || netout[v] > b {
-				return false, nil
+				return false, nil, false, nil
 			}
 		} else if netout[v] != b {
-			return false, nil
+			return false, nil, false, nil
 		}
 	}
-	// Flows and states.
-	for a := 0; a < m; a++ {
-		s.flow[a] = x[a] - n.Lower[a]
-	}
 	for i, v := range s.holdFrom {
-		s.flow[s.holdStart+i] = n.Supply[v] - netout[v]
+		a := s.holdStart + i
+		b := n.Supply[v]
+		f := b - netout[v]
+		s.flow[a] = f
+		switch f {
+		case 0:
+			s.state[a] = stateLower
+			cnt[s.hold+1]++
+		case b:
+			s.state[a] = stateUpper
+			cnt[v+1]++
+		default:
+			s.state[a] = stateTree
+			free = append(free, int32(a))
+		}
 	}
-	return true, s.buildWarmTree()
-}
+	if hasLower {
+		s.setShiftedCaps()
+	}
+	s.checked = needChecks(int64(nn), int64(maxRate))
+	var errCost error
+	s.obj, errCost = cs.total()
+	s.objOK = errCost == nil
+	s.artTotal = 0
 
-// buildWarmTree builds a strongly feasible tree for the current flows,
-// in which the artificial arcs carry nothing: arcs strictly between their
-// bounds, in index order while they close no cycle, form a forest that
-// completeForest completes. It returns the free arcs left out of the
-// forest (not yet at a bound and not in the tree).
-func (s *simplex) buildWarmTree() []int32 {
-	n := s.net
-	uf := make([]int32, s.nNodes)
-	for v := range uf {
-		uf[v] = int32(v)
-	}
+	// The forest: the free arcs in index order while they close no
+	// cycle.
+	uf := make([]int32, nn)
 	find := func(v int32) int32 {
 		for uf[v] != v {
 			uf[v] = uf[uf[v]]
@@ -1294,55 +1583,690 @@ func (s *simplex) buildWarmTree() []int32 {
 		}
 		return v
 	}
+	join := func(a int32) bool {
+		t, h := s.ends(a)
+		ra, rb := find(t), find(h)
+		if ra == rb {
+			return false
+		}
+		if ra < rb {
+			uf[rb] = ra
+		} else {
+			uf[ra] = rb
+		}
+		return true
+	}
+	forest := make([]int32, 0, nn)
 	var superbasic []int32
-	forest := make([]int32, 0, s.nNodes)
-	for a := 0; a < s.artStart; a++ {
-		f, c := s.flow[a], s.cap[a]
-		switch {
-		case c == 0:
-			s.state[a] = stateTree // fixed
-		case f == 0:
-			s.state[a] = stateLower
-		case f == c:
-			s.state[a] = stateUpper
-		default:
-			s.state[a] = stateTree
-			ra, rb := find(s.src[a]), find(s.tgt[a])
-			if ra == rb {
-				superbasic = append(superbasic, int32(a))
-				continue
-			}
-			if ra < rb {
-				uf[rb] = ra
+	// makeForest fills forest and superbasic.
+	makeForest := func() {
+		for v := range uf {
+			uf[v] = int32(v)
+		}
+		forest, superbasic = forest[:0], superbasic[:0]
+		for _, a := range free {
+			if join(a) {
+				forest = append(forest, a)
 			} else {
-				uf[ra] = rb
+				superbasic = append(superbasic, a)
 			}
-			forest = append(forest, int32(a))
 		}
 	}
-	tree := s.completeForest(forest, find)
-	for _, a := range tree {
-		s.state[a] = stateTree
+	// boundState is the state arc a's flow gives it outside the tree.
+	boundState := func(a int32) int8 {
+		switch f := s.flow[a]; f {
+		case 0:
+			return stateLower
+		case s.capOf(a):
+			return stateUpper
+		}
+		return stateTree
 	}
-	// Tree adjacency (forest, attaching arcs and the artificial arcs of
-	// the component roots) and a depth-first preorder from R.
+	// count adds (k = 1) or removes (k = -1) arc a at state st from cnt.
+	count := func(a int32, st int8, k int32) {
+		t, h := s.ends(a)
+		switch st {
+		case stateLower:
+			cnt[h+1] += k
+		case stateUpper:
+			cnt[t+1] += k
+		}
+	}
+	// changed holds the arcs whose state differs from the one they had
+	// when the lists were made (boundLists), in no particular order.
+	var changed []int32
+	// cancel pivots arcs into the current tree: first the free arcs of
+	// freeTry (left out of the forest) towards lower cost, then the arcs
+	// of try (at a bound) when eligible, most violating first. Only the
+	// arcs of touched (which must hold every tree arc not artificial and
+	// every arc of freeTry and try) can change flow; afterwards their
+	// states follow their flows (the tree is dropped), free keeps those
+	// strictly between their bounds, and those whose state changed join
+	// changed.
+	cancel := func(freeTry, try []int32, touched []int32) (bool, error) {
+		before := make([]int8, len(touched))
+		for i, a := range touched {
+			before[i] = boundState(a)
+		}
+		if err := s.computePotentialsChecked(); err != nil {
+			return false, err
+		}
+		for _, a := range freeTry {
+			if s.state[a] != stateTree {
+				continue // reached a bound already
+			}
+			if unb, err := s.pivotFree(a); err != nil || unb {
+				return unb, err
+			}
+		}
+		{
+			// Most violating first (after a perturbation, the lane that
+			// left the cycle is among them, and its pivot restores it):
+			// a few rounds of picking the most violating arc still
+			// eligible, then the rest in order.
+			rest := append([]int32(nil), try...)
+			for k := 0; len(rest) > 0; k++ {
+				best, bestR := -1, int64(0)
+				keep := rest[:0]
+				for _, a := range rest {
+					st := s.state[a]
+					if st == stateTree {
+						continue
+					}
+					r, err := s.reducedChecked(a)
+					if err != nil {
+						return false, err
+					}
+					if int64(st)*r >= 0 {
+						continue
+					}
+					if k >= maxPicks {
+						if unb, err := s.pivot(a, st, r); err != nil || unb {
+							return unb, err
+						}
+						continue
+					}
+					if r = abs64(r); best < 0 || r > bestR {
+						best, bestR = len(keep), r
+					}
+					keep = append(keep, a)
+				}
+				if best < 0 {
+					break
+				}
+				a := keep[best]
+				rest = append(keep[:best], keep[best+1:]...)
+				r, _ := s.reducedChecked(a)
+				if unb, err := s.pivot(a, s.state[a], r); err != nil || unb {
+					return unb, err
+				}
+			}
+		}
+		free = free[:0]
+		for i, a := range touched {
+			st := boundState(a)
+			s.state[a] = st
+			if st == stateTree {
+				free = append(free, a)
+			}
+			if st != before[i] {
+				count(a, before[i], -1)
+				count(a, st, 1)
+				changed = append(changed, a)
+			}
+		}
+		return false, nil
+	}
+	// artTree is the forest with each part hung from R by the artificial
+	// arc of its smallest node: a strongly feasible tree of free arcs.
+	artTree := func() []int32 {
+		tree := append(make([]int32, 0, nn), forest...)
+		for v := int32(0); v < int32(nn); v++ {
+			if find(v) == v {
+				tree = append(tree, int32(s.artStart)+v)
+			}
+		}
+		return tree
+	}
+	var lists [2]partLists
+	for round := 0; ; round++ {
+		makeForest()
+		if len(superbasic) > 0 {
+			// Cancel the forest's cycles first, so the parts' potentials
+			// come from a plan without cycles of free lanes (a plan moved
+			// around a few cycles from an optimum is then usually back
+			// at it).
+			s.setTree(artTree())
+			touched := append([]int32(nil), free...)
+			freeTry := append([]int32(nil), superbasic...)
+			if unb, err := cancel(freeTry, nil, touched); err != nil || unb {
+				return true, nil, unb, err
+			}
+			makeForest()
+		}
+		comp := make([]int32, nn)
+		for v := range comp {
+			comp[v] = find(int32(v))
+		}
+		rho := s.forestPotentials(forest, comp)
+		var viol []int32
+		if lists[0].list == nil {
+			lists[0], viol = s.boundLists(cnt, comp, rho)
+		} else {
+			// The lists still hold every arc that was at a bound when
+			// they were made (stale entries are skipped); the arcs
+			// whose state changed since are listed apart.
+			slices.Sort(changed)
+			changed = slices.Compact(changed)
+			lists[1] = s.extraLists(changed)
+		}
+		if round < maxRounds && len(viol) > 0 {
+			// Lanes at a bound inside a part with the wrong sign of
+			// reduced cost close cycles of negative cost with the
+			// forest: cancel them in the forest (each part hung from R)
+			// and start again.
+			s.setTree(artTree())
+			touched := append(append([]int32(nil), free...), viol...)
+			if unb, err := cancel(nil, viol, touched); err != nil || unb {
+				return true, nil, unb, err
+			}
+			continue
+		}
+		try := s.completeTree(forest, comp, rho, lists)
+		if len(try) > 0 && round < maxRounds {
+			// Lanes the search found closing cycles of negative cost
+			// (across parts, or inside one): pivot them into the tree
+			// just built, then search again from the new plan.
+			touched := append([]int32(nil), try...)
+			for v := 0; v < nn; v++ {
+				if a := s.pred[v]; int(a) < s.artStart {
+					touched = append(touched, a)
+				}
+			}
+			if unb, err := cancel(nil, try, touched); err != nil || unb {
+				return true, nil, unb, err
+			}
+			continue
+		}
+		return true, superbasic, false, nil
+	}
+}
+
+// maxPicks bounds the rounds of picking the most violating arc when a
+// warm start cancels cycles of negative cost.
+const maxPicks = 32
+
+// maxRounds bounds the rounds of a warm start that cancel cycles of
+// negative cost before the first tree is kept.
+const maxRounds = 2
+
+// coarser reports whether every part of prev lies inside one part of
+// next (both give each node its part's smallest node). O(|V|).
+func coarser(prev, next []int32) bool {
+	img := make([]int32, len(prev))
+	for v := range img {
+		img[v] = -1
+	}
+	for v, p := range prev {
+		switch img[p] {
+		case -1:
+			img[p] = next[v]
+		case next[v]:
+		default:
+			return false
+		}
+	}
+	return true
+}
+
+// extraLists lists the arcs of arcs that sit at a bound, like
+// boundLists. O(|V| + len(arcs)).
+func (s *simplex) extraLists(arcs []int32) partLists {
+	nn := s.nNodes
+	xstart := make([]int32, nn+1)
+	var keep []boundArc
+	var at []int32
+	for _, a := range arcs {
+		if b, u, ok := s.listEntry(a); ok {
+			keep = append(keep, b)
+			at = append(at, u)
+			xstart[u+1]++
+		}
+	}
+	for v := 0; v < nn; v++ {
+		xstart[v+1] += xstart[v]
+	}
+	xend := make([]int32, nn)
+	copy(xend, xstart[:nn])
+	list := make([]boundArc, len(keep))
+	for i, b := range keep {
+		list[xend[at[i]]] = b
+		xend[at[i]]++
+	}
+	return partLists{list, xstart[:nn], xend}
+}
+
+// pivotFree pivots the free arc a (not in the tree) in, towards lower
+// cost; on a tie towards less flow (a finite limit, so a zero-cost cycle
+// is never called unbounded).
+func (s *simplex) pivotFree(a int32) (bool, error) {
+	r, err := s.reducedChecked(a)
+	if err != nil {
+		return false, err
+	}
+	dir := stateUpper
+	if r < 0 {
+		dir = stateLower
+	}
+	return s.pivot(a, dir, r)
+}
+
+// forestPotentials returns the potentials within the forest's parts:
+// reduced cost 0 on forest arcs, 0 at each part's smallest node; all zero
+// (no guidance and no overflow risk) when potentials need checked
+// arithmetic. O(|V|).
+func (s *simplex) forestPotentials(forest, comp []int32) []int64 {
+	nn := s.nNodes
+	fstart := make([]int32, nn+1)
+	for _, a := range forest {
+		t, h := s.ends(a)
+		fstart[t+1]++
+		fstart[h+1]++
+	}
+	for v := 0; v < nn; v++ {
+		fstart[v+1] += fstart[v]
+	}
+	fadj := make([]int32, fstart[nn])
+	ffill := make([]int32, nn)
+	copy(ffill, fstart[:nn])
+	for _, a := range forest {
+		t, h := s.ends(a)
+		fadj[ffill[t]] = a
+		ffill[t]++
+		fadj[ffill[h]] = a
+		ffill[h]++
+	}
+	rho := make([]int64, nn)
+	if s.checked {
+		return rho
+	}
+	done := make([]bool, nn)
+	stack := make([]int32, 0, 64)
+	for v0 := 0; v0 < nn; v0++ {
+		if done[v0] {
+			continue
+		}
+		done[v0] = true
+		stack = append(stack[:0], int32(v0))
+		for len(stack) > 0 {
+			v := stack[len(stack)-1]
+			stack = stack[:len(stack)-1]
+			for _, a := range fadj[fstart[v]:fstart[v+1]] {
+				t, h := s.ends(a)
+				w := t
+				if w == v {
+					w = h
+				}
+				if done[w] {
+					continue
+				}
+				done[w] = true
+				// r(a) = cost + p(tail) - p(head) = 0
+				if t == w {
+					rho[w] = rho[v] - s.costOf(a)
+				} else {
+					rho[w] = rho[v] + s.costOf(a)
+				}
+				stack = append(stack, w)
+			}
+		}
+	}
+	return rho
+}
+
+// boundArc is an arc at a bound between two parts of the forest, listed
+// at the node u its spare direction leads to: from is the node at its
+// other end (^from, negative, when the arc is at capacity; from >= 0 at
+// the lower bound) and w = p(from) - p(u) for reduced cost 0 (minus the
+// rate at the lower bound, plus it at capacity).
+type boundArc struct {
+	arc, from int32
+	w         int64
+}
+
+// partLists lists arcs at a bound between parts by node: node v's are
+// list[start[v]:end[v]].
+type partLists struct {
+	list       []boundArc
+	start, end []int32
+}
+
+// listEntry returns arc a as listed, with the node it is listed at, or
+// false when a is not at a bound.
+func (s *simplex) listEntry(a int32) (boundArc, int32, bool) {
+	st := s.state[a]
+	if st == stateTree {
+		return boundArc{}, 0, false
+	}
+	t, h := s.ends(a)
+	r := s.costOf(a)
+	if st == stateLower {
+		return boundArc{a, t, -r}, h, true
+	}
+	return boundArc{a, ^h, r}, t, true
+}
+
+// boundLists lists the arcs at a bound that join two parts of the forest
+// by the node their spare direction leads to (head at the lower bound,
+// tail at capacity), in index order: those of node v are
+// list[lstart[v]:lend[v]]; the slots come from the per-node counts cnt
+// (at v+1, arcs inside parts included). Arcs at a bound inside a part
+// whose reduced cost (from rho) has the wrong sign are returned in viol
+// (none when rho is all zero, in checked arithmetic). One pass over the
+// lanes; 16 bytes per listed arc.
+func (s *simplex) boundLists(cnt, comp []int32, rho []int64) (pl partLists, viol []int32) {
+	nn, m := s.nNodes, s.m
+	lstart := make([]int32, nn+1)
+	for v := 0; v < nn; v++ {
+		lstart[v+1] = lstart[v] + cnt[v+1]
+	}
+	list := make([]boundArc, lstart[nn])
+	lstart = lstart[:nn]
+	lend := make([]int32, nn)
+	copy(lend, lstart)
+	check := !s.checked
+	tail, head, rate, state := s.tail[:m], s.head[:m], s.rate[:m], s.state[:m]
+	for a, st := range state {
+		if st == stateTree {
+			continue
+		}
+		t, h := tail[a], head[a]
+		r := rate[a]
+		if check && comp[t] == comp[h] {
+			if rc := r + rho[t] - rho[h]; int64(st)*rc < 0 {
+				viol = append(viol, int32(a))
+			}
+		}
+		if st == stateLower {
+			list[lend[h]] = boundArc{int32(a), t, -r}
+			lend[h]++
+		} else {
+			list[lend[t]] = boundArc{int32(a), ^h, r}
+			lend[t]++
+		}
+	}
+	for a := s.holdStart; a < s.artStart; a++ {
+		b, u, ok := s.listEntry(int32(a))
+		if !ok {
+			continue
+		}
+		if t, h := s.ends(int32(a)); check && comp[t] == comp[h] {
+			if rc := rho[t] - rho[h]; int64(s.state[a])*rc < 0 {
+				viol = append(viol, int32(a))
+			}
+		}
+		list[lend[u]] = b
+		lend[u]++
+	}
+	return partLists{list, lstart, lend}, viol
+}
+
+// completeTree joins the parts of the forest (comp: each node's part, by
+// its smallest node; rho: potentials within parts) into a strongly
+// feasible spanning tree and makes it the current tree (see "Warm start"
+// at Solve). The arcs at a bound are listed by the node their spare
+// direction leads to (lists[0] from boundLists, lists[1] those whose state
+// changed since; entries whose state no longer matches are skipped). It
+// returns, sorted, up to maxRefused arcs found closing cycles of negative
+// cost: arcs between parts the search refused, and arcs inside a part
+// with the wrong sign of reduced cost. Time O(|V|) plus the search,
+// capped at about eight passes over the lists.
+func (s *simplex) completeTree(forest, comp []int32, rho []int64, lists [2]partLists) []int32 {
+	nn := s.nNodes
+	// Members of each part, in node order.
+	cstart := make([]int32, nn+1)
+	for v := 0; v < nn; v++ {
+		cstart[comp[v]+1]++
+	}
+	for v := 0; v < nn; v++ {
+		cstart[v+1] += cstart[v]
+	}
+	members := make([]int32, nn)
+	cfill := make([]int32, nn)
+	copy(cfill, cstart[:nn])
+	for v := 0; v < nn; v++ {
+		c := comp[v]
+		members[cfill[c]] = int32(v)
+		cfill[c]++
+	}
+
+	// Label-correcting search over the parts (indexed by their smallest
+	// node): lab is the part's offset (p(v) = rho[v] + lab[part]), par the
+	// arc to its parent part, at the node where that arc joins it. The
+	// active parts of a search form a tree kept as a preorder list (tnx,
+	// tpv, dep) so that a part whose offset rises can drop its subtree
+	// (whose offsets are then out of date) and a cycle of negative cost is
+	// seen as a part rising below itself.
+	// Hot data packed per node (part, rho) and per part (offset, search
+	// number, flags): two cache lines per arc scanned.
+	type nodeData struct {
+		rho  int64
+		comp int32
+	}
+	type partData struct {
+		lab      int64
+		srch     int32 // search number; 0: not reached
+		act, inq bool
+	}
+	nd := make([]nodeData, nn)
+	for v := range nd {
+		nd[v] = nodeData{rho[v], comp[v]}
+	}
+	ps := make([]partData, nn)
+	par := make([]int32, nn)
+	at := make([]int32, nn)
+	tnx := make([]int32, nn)
+	tpv := make([]int32, nn)
+	dep := make([]int32, nn)
+	ppart := make([]int32, nn) // parent part
+	queue := make([]int32, nn+1)
+	qh, qt := 0, 0
+	push := func(c int32) {
+		ps[c].inq = true
+		queue[qt] = c
+		if qt++; qt == len(queue) {
+			qt = 0
+		}
+	}
+	improve := !s.checked
+	work, limit := 0, 8*(len(lists[0].list)+len(lists[1].list)+nn)+1024
+	cur := int32(0)
+	state := s.state
+	var refusedArcs []int32
+	// detach drops the subtree of d from the tree unless c is in it
+	// (found by climbing from c to the depth of d).
+	detach := func(d, c int32) bool {
+		if dep[c] > dep[d] {
+			y := c
+			for dep[y] > dep[d] {
+				y = ppart[y]
+			}
+			if y == d {
+				return false
+			}
+		}
+		y := tnx[d]
+		for y >= 0 && dep[y] > dep[d] {
+			y = tnx[y]
+		}
+		p := tpv[d]
+		if p >= 0 {
+			tnx[p] = y
+		}
+		if y >= 0 {
+			tpv[y] = p
+		}
+		for z := d; z != y; z = tnx[z] {
+			ps[z].act = false
+		}
+		return true
+	}
+	scan := func(c int32) {
+		for _, u := range members[cstart[c]:cstart[c+1]] {
+			pu := nd[u].rho + ps[c].lab
+			for k := range lists {
+				pl := &lists[k]
+				if pl.list == nil {
+					continue
+				}
+				arcs := pl.list[pl.start[u]:pl.end[u]]
+				work += len(arcs)
+				for _, b := range arcs {
+					a, v, st := b.arc, b.from, stateLower
+					if v < 0 {
+						v, st = ^v, stateUpper
+					}
+					// (state[a] != st: a stale entry, checked only
+					// where it matters.)
+					nv := &nd[v]
+					d := nv.comp
+					if d == c {
+						// Inside the part: the forest fixes both ends;
+						// the wrong sign of reduced cost means a cycle
+						// of negative cost.
+						if improve && nv.rho < pu-ps[c].lab+b.w && state[a] == st && len(refusedArcs) < maxRefused {
+							refusedArcs = append(refusedArcs, a)
+						}
+						continue
+					}
+					pd := &ps[d]
+					sd := pd.srch
+					if sd != 0 && sd != cur {
+						continue
+					}
+					nl := pu + b.w - nv.rho
+					if sd == cur && (!improve || nl <= pd.lab) {
+						continue
+					}
+					if state[a] != st {
+						continue
+					}
+					if sd == cur {
+						if pd.act && !detach(d, c) {
+							if len(refusedArcs) < maxRefused {
+								refusedArcs = append(refusedArcs, a)
+							}
+							continue // a cycle of negative cost
+						}
+					}
+					pd.lab, pd.srch, pd.act = nl, cur, true
+					par[d], at[d], ppart[d] = a, v, c
+					nx := tnx[c]
+					tnx[c], tpv[d], tnx[d] = d, c, nx
+					if nx >= 0 {
+						tpv[nx] = d
+					}
+					dep[d] = dep[c] + 1
+					if !pd.inq {
+						push(d)
+					}
+				}
+			}
+		}
+		if work > limit {
+			improve = false
+		}
+	}
+	search := func(r int32) {
+		cur++
+		v0 := r
+		ps[r].lab, ps[r].srch, ps[r].act = -rho[v0], cur, true
+		par[r], at[r] = -1, v0
+		tnx[r], tpv[r], dep[r] = -1, -1, 0
+		push(r)
+		for qh != qt {
+			c := queue[qh]
+			if qh++; qh == len(queue) {
+				qh = 0
+			}
+			ps[c].inq = false
+			if ps[c].act {
+				scan(c)
+			}
+		}
+	}
+	if nn > 0 {
+		first := int32(0)
+		if s.hold >= 0 {
+			first = comp[s.hold]
+		} else {
+			for v := int32(0); v < int32(nn); v++ {
+				if comp[v] == v && cstart[v+1]-cstart[v] > cstart[first+1]-cstart[first] {
+					first = v
+				}
+			}
+		}
+		search(first)
+	}
+	// Parts not reached (or dropped after the search was capped) start
+	// searches of their own, hanging from R.
+	for pass := 0; pass < 2; pass++ {
+		for v := int32(0); v < int32(nn); v++ {
+			if comp[v] == v && !ps[v].act {
+				search(v)
+			}
+		}
+	}
+
+	// The tree: forest, the arcs joining parts, and the artificial arcs of
+	// the search roots (zero flow, directed to R).
+	tree := append(make([]int32, 0, nn), forest...)
+	for v := int32(0); v < int32(nn); v++ {
+		if comp[v] != v {
+			continue
+		}
+		if par[v] >= 0 {
+			tree = append(tree, par[v])
+		} else {
+			tree = append(tree, int32(s.artStart)+at[v])
+		}
+	}
+	s.setTree(tree)
+	slices.Sort(refusedArcs)
+	return slices.Compact(refusedArcs)
+}
+
+// maxRefused caps the arcs closing cycles of negative cost that one
+// search of a warm start reports.
+const maxRefused = 1024
+
+// setTree makes tree (nNodes arcs forming a spanning tree of the nodes and
+// R, artificial arcs directed to R with zero flow) the current tree:
+// states, parent, pred, up, thread, rthread, size and last, by a
+// depth-first search from R taking arcs in list order. Phase-two costs.
+// O(|V|).
+func (s *simplex) setTree(tree []int32) {
 	r := s.root
 	nt := s.nNodes + 1
 	start := make([]int32, nt+1)
 	for _, a := range tree {
-		start[s.src[a]+1]++
-		start[s.tgt[a]+1]++
+		s.state[a] = stateTree
+		t, h := s.ends(a)
+		start[t+1]++
+		start[h+1]++
 	}
 	for v := 0; v < nt; v++ {
 		start[v+1] += start[v]
 	}
 	adj := make([]int32, start[nt])
-	fill := append([]int32(nil), start[:nt]...)
+	fill := make([]int32, nt)
+	copy(fill, start[:nt])
 	for _, a := range tree {
-		adj[fill[s.src[a]]] = a
-		fill[s.src[a]]++
-		adj[fill[s.tgt[a]]] = a
-		fill[s.tgt[a]]++
+		t, h := s.ends(a)
+		adj[fill[t]] = a
+		fill[t]++
+		adj[fill[h]] = a
+		fill[h]++
 	}
 	order := make([]int32, 0, nt)
 	seen := make([]bool, nt)
@@ -1355,15 +2279,16 @@ func (s *simplex) buildWarmTree() []int32 {
 		// Push children in reverse so they are visited in arc order.
 		for i := start[v+1] - 1; i >= start[v]; i-- {
 			e := adj[i]
-			w := s.src[e]
+			t, h := s.ends(e)
+			w := t
 			if w == v {
-				w = s.tgt[e]
+				w = h
 			}
 			if seen[w] {
 				continue
 			}
 			seen[w] = true
-			s.parent[w], s.pred[w], s.up[w] = v, e, s.src[e] == w
+			s.parent[w], s.pred[w], s.up[w] = v, e, t == w
 			stack = append(stack, w)
 		}
 	}
@@ -1382,282 +2307,8 @@ func (s *simplex) buildWarmTree() []int32 {
 	s.parent[r], s.pred[r] = -1, -1
 	s.treeSet = true
 	s.artFixed = true
-	copy(s.cost, n.Rate)
-	for a := s.artStart; a < len(s.cost); a++ {
-		s.cost[a] = 0
+	s.cost = s.rate
+	for a := s.artStart; a < s.na; a++ {
+		s.xcost[a-s.m] = 0
 	}
-	return superbasic
-}
-
-// completeForest returns the arcs of a strongly feasible spanning tree
-// containing forest (free arcs; find gives their components). Components
-// are taken in order of their smallest node; one not yet attached hangs
-// from R by the artificial arc of that node (zero flow, directed to R).
-// Then, breadth first, every component next to the attached part joins it
-// through an arc the tree may hold at a bound (zero flow and directed into
-// the attached part, or at capacity and directed out of it); among those
-// it takes the one that gives the component the highest potentials, the
-// least for which all of them keep the right sign, so the first tree is
-// close to dual feasible when x came from an optimal plan. Time
-// O(|V|+|E|).
-func (s *simplex) completeForest(forest []int32, find func(int32) int32) []int32 {
-	nv := s.nNodes
-	na := s.artStart
-	comp := make([]int32, nv)
-	for v := range comp {
-		comp[v] = find(int32(v))
-	}
-	// Members of each component, grouped by representative.
-	cstart := make([]int32, nv+1)
-	for v := 0; v < nv; v++ {
-		cstart[comp[v]+1]++
-	}
-	for v := 0; v < nv; v++ {
-		cstart[v+1] += cstart[v]
-	}
-	members := make([]int32, nv)
-	cfill := append([]int32(nil), cstart[:nv]...)
-	for v := 0; v < nv; v++ {
-		c := comp[v]
-		members[cfill[c]] = int32(v)
-		cfill[c]++
-	}
-	// Potentials within components (rho), from the forest; all zero (no
-	// guidance, no overflow risk) when potentials need checked arithmetic.
-	rho := make([]int64, nv)
-	fstart := make([]int32, nv+1)
-	for _, a := range forest {
-		fstart[s.src[a]+1]++
-		fstart[s.tgt[a]+1]++
-	}
-	for v := 0; v < nv; v++ {
-		fstart[v+1] += fstart[v]
-	}
-	fadj := make([]int32, fstart[nv])
-	ffill := append([]int32(nil), fstart[:nv]...)
-	for _, a := range forest {
-		fadj[ffill[s.src[a]]] = a
-		ffill[s.src[a]]++
-		fadj[ffill[s.tgt[a]]] = a
-		ffill[s.tgt[a]]++
-	}
-	done := make([]bool, nv)
-	stack := make([]int32, 0, 64)
-	for v0 := 0; v0 < nv; v0++ {
-		if done[v0] {
-			continue
-		}
-		done[v0] = true
-		stack = append(stack[:0], int32(v0))
-		for len(stack) > 0 {
-			v := stack[len(stack)-1]
-			stack = stack[:len(stack)-1]
-			for _, a := range fadj[fstart[v]:fstart[v+1]] {
-				w := s.src[a]
-				if w == v {
-					w = s.tgt[a]
-				}
-				if done[w] {
-					continue
-				}
-				done[w] = true
-				// r(a) = cost + p(src) - p(tgt) = 0
-				if s.checked {
-				} else if s.src[a] == w {
-					rho[w] = rho[v] - s.cost[a]
-				} else {
-					rho[w] = rho[v] + s.cost[a]
-				}
-				stack = append(stack, w)
-			}
-		}
-	}
-	// Arcs at a bound between components, by tail and by head.
-	const lo, hi = 0, 1
-	var cnt [2][2][]int32 // [lower/upper][by tail/by head] starts
-	for i := range cnt {
-		for j := range cnt[i] {
-			cnt[i][j] = make([]int32, nv+1)
-		}
-	}
-	kind := func(a int) int {
-		switch {
-		case s.cap[a] == 0 || comp[s.src[a]] == comp[s.tgt[a]]:
-			return -1
-		case s.flow[a] == 0:
-			return lo
-		case s.flow[a] == s.cap[a]:
-			return hi
-		}
-		return -1
-	}
-	for a := 0; a < na; a++ {
-		if k := kind(a); k >= 0 {
-			cnt[k][0][s.src[a]+1]++
-			cnt[k][1][s.tgt[a]+1]++
-		}
-	}
-	var lists [2][2][]int32
-	var fills [2][2][]int32
-	for i := range cnt {
-		for j := range cnt[i] {
-			c := cnt[i][j]
-			for v := 0; v < nv; v++ {
-				c[v+1] += c[v]
-			}
-			lists[i][j] = make([]int32, c[nv])
-			fills[i][j] = append([]int32(nil), c[:nv]...)
-		}
-	}
-	for a := 0; a < na; a++ {
-		if k := kind(a); k >= 0 {
-			t, h := s.src[a], s.tgt[a]
-			lists[k][0][fills[k][0][t]] = int32(a)
-			fills[k][0][t]++
-			lists[k][1][fills[k][1][h]] = int32(a)
-			fills[k][1][h]++
-		}
-	}
-	arcs := func(k, by int, v int32) []int32 {
-		return lists[k][by][cnt[k][by][v]:cnt[k][by][v+1]]
-	}
-
-	tree := append(make([]int32, 0, nv), forest...)
-	attached := make([]bool, nv) // by representative
-	best := make([]int64, nv)    // best bound offered to a component
-	offered := make([]bool, nv)
-	off := make([]int64, nv)
-	pot := func(v int32) int64 { return rho[v] + off[comp[v]] }
-	var h offerHeap
-	offer := func(d int32, b int64, a int32) {
-		if attached[d] || (offered[d] && b <= best[d]) {
-			return
-		}
-		offered[d], best[d] = true, b
-		h.push(offer{b, d, a})
-	}
-	// hang offers every unattached neighbour of c a bound through each
-	// arc that could hang it below c.
-	hang := func(c int32) {
-		for _, u := range members[cstart[c]:cstart[c+1]] {
-			pu := pot(u)
-			// Lower arc w->u: p(w) >= p(u) - cost.
-			for _, a := range arcs(lo, 1, u) {
-				w := s.src[a]
-				offer(comp[w], pu-s.cost[a]-rho[w], a)
-			}
-			// Upper arc u->w: p(w) >= p(u) + cost.
-			for _, a := range arcs(hi, 0, u) {
-				w := s.tgt[a]
-				offer(comp[w], pu+s.cost[a]-rho[w], a)
-			}
-		}
-	}
-	for v0 := int32(0); v0 < int32(nv); v0++ {
-		c := comp[v0]
-		if attached[c] {
-			continue
-		}
-		tree = append(tree, int32(s.artStart)+v0)
-		attached[c] = true
-		off[c] = -rho[v0]
-		hang(c)
-		for len(h) > 0 {
-			o := h.pop()
-			if attached[o.comp] || o.bound != best[o.comp] {
-				continue // stale
-			}
-			tree = append(tree, o.arc)
-			attached[o.comp] = true
-			off[o.comp] = o.bound
-			hang(o.comp)
-		}
-	}
-	return tree
-}
-
-// offer is a bound on the potentials of a component not yet in the tree,
-// through an arc that can hang it there.
-type offer struct {
-	bound int64
-	comp  int32
-	arc   int32
-}
-
-// offerHeap is a binary max-heap of offers (highest bound first, then
-// lowest arc index).
-type offerHeap []offer
-
-func (o offer) before(p offer) bool {
-	return o.bound > p.bound || (o.bound == p.bound && o.arc < p.arc)
-}
-
-func (h *offerHeap) push(o offer) {
-	*h = append(*h, o)
-	q := *h
-	i := len(q) - 1
-	for i > 0 {
-		p := (i - 1) / 2
-		if !q[i].before(q[p]) {
-			break
-		}
-		q[i], q[p] = q[p], q[i]
-		i = p
-	}
-}
-
-func (h *offerHeap) pop() offer {
-	q := *h
-	top := q[0]
-	n := len(q) - 1
-	q[0] = q[n]
-	q = q[:n]
-	i := 0
-	for {
-		l := 2*i + 1
-		if l >= n {
-			break
-		}
-		c := l
-		if r := l + 1; r < n && q[r].before(q[l]) {
-			c = r
-		}
-		if !q[c].before(q[i]) {
-			break
-		}
-		q[i], q[c] = q[c], q[i]
-		i = c
-	}
-	*h = q
-	return top
-}
-
-// totalCost returns Σ rate[a]·x[a] (x >= 0) exactly: positive and negative
-// products are summed apart in 128 bits (with a carry check), then
-// subtracted.
-func totalCost(rate, x []int64) (Wide, error) {
-	var pHi, pLo, nHi, nLo, c uint64
-	over := false
-	for a, r := range rate {
-		f := x[a]
-		if r == 0 || f == 0 {
-			continue
-		}
-		if r > 0 {
-			hi, lo := bits.Mul64(uint64(r), uint64(f))
-			pLo, c = bits.Add64(pLo, lo, 0)
-			pHi, c = bits.Add64(pHi, hi, c)
-		} else {
-			hi, lo := bits.Mul64(uint64(-r), uint64(f))
-			nLo, c = bits.Add64(nLo, lo, 0)
-			nHi, c = bits.Add64(nHi, hi, c)
-		}
-		if c != 0 {
-			over = true
-		}
-	}
-	if over || pHi>>63 != 0 || nHi>>63 != 0 {
-		return Wide{}, fmt.Errorf("flow: solve: total cost: %w", ErrOverflow)
-	}
-	return Wide{hi: int64(pHi), lo: pLo}.Sub(Wide{hi: int64(nHi), lo: nLo})
 }

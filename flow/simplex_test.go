@@ -595,6 +595,24 @@ func TestSolveInvalid(t *testing.T) {
 	if _, err := flow.Solve(minRate, flow.SolveOptions{}); !errors.Is(err, flow.ErrOverflow) {
 		t.Errorf("rate MinInt64: %v, want ErrOverflow", err)
 	}
+	// The same with a start plan: a warm start checks the lanes in its
+	// own pass and must report the same errors.
+	if _, err := flow.Solve(bad, flow.SolveOptions{Start: []int64{2}}); err == nil {
+		t.Error("minimum above capacity, with a start: no error")
+	}
+	if _, err := flow.Solve(minRate, flow.SolveOptions{Start: []int64{1}}); !errors.Is(err, flow.ErrOverflow) {
+		t.Errorf("rate MinInt64, with a start: %v, want ErrOverflow", err)
+	}
+	outOfRange := build([]int64{1, -1}, [][5]int64{{0, 1, 0, noLimit, 1}, {0, 1, 0, noLimit, 1}})
+	outOfRange.Head[1] = 2
+	if _, err := flow.Solve(outOfRange, flow.SolveOptions{Start: []int64{1, 0}}); err == nil {
+		t.Error("node out of range, with a start: no error")
+	}
+	negMin := build([]int64{1, -1}, [][5]int64{{0, 1, 0, noLimit, 1}, {0, 1, 0, 5, 1}})
+	negMin.Lower[1] = -1
+	if _, err := flow.Solve(negMin, flow.SolveOptions{Start: []int64{1, 0}}); err == nil {
+		t.Error("negative minimum, with a start: no error")
+	}
 	// Two parallel lanes 0->1 of rate -1 and capacity 2^62 return on an
 	// uncapacitated lane 1->0 that would carry 2^63.
 	over := build([]int64{0, 0}, [][5]int64{{0, 1, 0, 1 << 62, -1}, {0, 1, 0, 1 << 62, -1}, {1, 0, 0, noLimit, 0}})
@@ -652,23 +670,128 @@ func TestSolveDegenerateAssignment(t *testing.T) {
 	}
 }
 
-// TestSolveProgress checks the Progress callback on a generated network
-// that needs more than 16384 pivots.
+// TestSolveProgress checks the Progress callback. Calls come at multiples
+// of 16384 pivots and only in phase two: a cold solve of a generated
+// network makes at most Pivots/16384 of them, and a warm start (phase two
+// throughout) exactly that many. Re-optimising a transportation plan
+// after its rates are reversed (rate -> 1001 - rate) needs enough pivots
+// for several calls; their costs must never increase, start no higher
+// than the start plan's cost and end no lower than the optimum. Every
+// final cost, kept per pivot like the reported ones, is checked exactly
+// against the plan by checkOptimal.
 func TestSolveProgress(t *testing.T) {
-	n := netgen.General(1004, 10000, 100000, 500, 500, 0.3, 100)
-	var calls []int64
-	sol, err := flow.Solve(n, flow.SolveOptions{Progress: func(p int64) { calls = append(calls, p) }})
+	type call struct {
+		pivots int64
+		cost   flow.Wide
+	}
+	// first, when not nil, bounds the first reported cost.
+	check := func(t *testing.T, calls []call, sol *flow.Solution, exact bool, first *flow.Wide) {
+		t.Helper()
+		want := sol.Pivots / (1 << 14)
+		if int64(len(calls)) > want || (exact && int64(len(calls)) != want) {
+			t.Fatalf("%d progress calls for %d pivots", len(calls), sol.Pivots)
+		}
+		for i, c := range calls {
+			if c.pivots%(1<<14) != 0 || (i > 0 && c.pivots <= calls[i-1].pivots) {
+				t.Fatalf("call %d with %d pivots after %v", i, c.pivots, calls[:i])
+			}
+			prev := first
+			if i > 0 {
+				prev = &calls[i-1].cost
+			}
+			if prev != nil && c.cost.Cmp(*prev) > 0 {
+				t.Fatalf("call %d: cost %s rose from %s", i, c.cost.Format(0), prev.Format(0))
+			}
+			if c.cost.Cmp(sol.Cost) < 0 {
+				t.Fatalf("call %d: cost %s below the optimum %s", i, c.cost.Format(0), sol.Cost.Format(0))
+			}
+		}
+	}
+	n := netgen.Transport(1003, 3000, 3000, 30000, 1000)
+	var calls []call
+	record := func(p int64, c flow.Wide) { calls = append(calls, call{p, c}) }
+	sol, err := flow.Solve(n, flow.SolveOptions{Progress: record})
 	if err != nil {
 		t.Fatal(err)
 	}
 	checkOptimal(t, n, sol)
-	if len(calls) == 0 || int64(len(calls)) != sol.Pivots/(1<<14) {
-		t.Fatalf("%d progress calls for %d pivots", len(calls), sol.Pivots)
+	check(t, calls, sol, false, nil)
+	t.Logf("cold: %d calls, %d pivots", len(calls), sol.Pivots)
+
+	rev := *n
+	rev.Rate = make([]int64, len(n.Rate))
+	for a, r := range n.Rate {
+		rev.Rate[a] = 1001 - r
 	}
-	for i, p := range calls {
-		if p != int64(i+1)<<14 {
-			t.Fatalf("call %d with %d", i, p)
-		}
+	var startCost flow.Wide
+	for a, x := range sol.Flow {
+		startCost, _ = startCost.AddProduct(rev.Rate[a], x)
+	}
+	calls = nil
+	w, err := flow.Solve(&rev, flow.SolveOptions{Start: sol.Flow, Progress: record})
+	if err != nil {
+		t.Fatal(err)
+	}
+	checkOptimal(t, &rev, w)
+	if !w.WarmStarted || len(calls) < 2 {
+		t.Fatalf("warm %v, %d calls for %d pivots", w.WarmStarted, len(calls), w.Pivots)
+	}
+	check(t, calls, w, true, &startCost)
+	t.Logf("warm: %d calls, %d pivots", len(calls), w.Pivots)
+}
+
+// TestSolveRepair repairs generated plans that are optimal except for 10
+// cycles (netgen.Perturb): every repair must warm start and reach the cold
+// optimum with a valid certificate, in far fewer pivots than a cold solve
+// (at most a tenth here; the target is a few pivots per cycle). From the
+// optimum itself the first tree is optimal or nearly so (a few pivots
+// where parts of the network cannot reach each other through lanes with
+// spare room).
+func TestSolveRepair(t *testing.T) {
+	cases := []struct {
+		name string
+		n    *flow.Network
+	}{
+		{"transport complete", netgen.Transport(21, 40, 50, 0, 1000)},
+		{"transport sparse", netgen.Transport(22, 400, 300, 4000, 1000)},
+		{"general", netgen.General(23, 3000, 20000, 150, 150, 0.3, 100)},
+		{"general capacitated", netgen.General(24, 800, 6000, 40, 40, 1, 1000)},
+	}
+	for _, c := range cases {
+		t.Run(c.name, func(t *testing.T) {
+			n := c.n
+			sol, err := flow.Solve(n, flow.SolveOptions{})
+			if err != nil {
+				t.Fatal(err)
+			}
+			checkOptimal(t, n, sol)
+			same, err := flow.Solve(n, flow.SolveOptions{Start: sol.Flow})
+			if err != nil || !same.WarmStarted {
+				t.Fatalf("from the optimum: %v, warm %v", err, same.WarmStarted)
+			}
+			checkOptimal(t, n, same)
+			if same.Pivots > 5 {
+				t.Errorf("from the optimum: %d pivots", same.Pivots)
+			}
+			for seed := uint64(31); seed < 34; seed++ {
+				y := netgen.Perturb(seed, n, sol.Flow, sol.InTree, 10)
+				w, err := flow.Solve(n, flow.SolveOptions{Start: y})
+				if err != nil {
+					t.Fatal(err)
+				}
+				if !w.WarmStarted {
+					t.Fatalf("seed %d: not warm started", seed)
+				}
+				checkOptimal(t, n, w)
+				if w.Cost.Cmp(sol.Cost) != 0 {
+					t.Fatalf("seed %d: cost %s, want %s", seed, w.Cost.Format(0), sol.Cost.Format(0))
+				}
+				if w.Pivots > sol.Pivots/10 {
+					t.Errorf("seed %d: %d pivots, cold %d", seed, w.Pivots, sol.Pivots)
+				}
+				t.Logf("seed %d: %d pivots (cold %d, from the optimum %d)", seed, w.Pivots, sol.Pivots, same.Pivots)
+			}
+		})
 	}
 }
 
