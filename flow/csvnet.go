@@ -1,6 +1,7 @@
 package flow
 
 import (
+	"errors"
 	"fmt"
 	"io"
 	"sort"
@@ -65,21 +66,45 @@ func ReadCSVNetwork(lanes io.Reader, lanesFile string, nodes io.Reader, nodesFil
 
 // readCSVNetwork is ReadCSVNetwork on the lane table's bytes.
 func readCSVNetwork(data []byte, lanesFile string, nodes io.Reader, nodesFile string, opt TableOptions) (*Network, *RawPlan, error) {
+	lanes := func(known []string) (*table, error) {
+		return openTable(data, lanesFile, opt, known, &errs{file: lanesFile})
+	}
+	var nodeTable tableOpener
+	if nodes != nil {
+		nodeTable = func(known []string) (*table, error) {
+			nd, err := io.ReadAll(nodes)
+			if err != nil {
+				return nil, fmt.Errorf("flow: reading %s: %w", nodesFile, err)
+			}
+			return openTable(nd, nodesFile, opt, known, &errs{file: nodesFile})
+		}
+	}
+	return readNetwork(lanes, nodeTable)
+}
+
+// tableOpener opens one table of a network's input (the CSV text of a
+// file, or a worksheet) with the given known column names; its errs
+// collects the row errors.
+type tableOpener func(known []string) (*table, error)
+
+// readNetwork reads a lane table and, if nodes is not nil, a node table
+// (see ReadCSVNetwork).
+func readNetwork(lanes, nodes tableOpener) (*Network, *RawPlan, error) {
 	idx := &nodeIndex{ids: map[string]NodeID{}}
 	var supply rawQty
 	var nodeExtra *ExtraColumns
 	if nodes != nil {
 		var err error
-		supply, nodeExtra, err = readNodeTable(nodes, nodesFile, opt, idx)
+		supply, nodeExtra, err = readNodeTable(nodes, idx)
 		if err != nil {
 			return nil, nil, err
 		}
 	}
-	e := &errs{file: lanesFile}
-	t, err := openTable(data, lanesFile, opt, laneColumns, e)
+	t, err := lanes(laneColumns)
 	if err != nil {
 		return nil, nil, err
 	}
+	e, lanesFile := t.e, t.file
 	if err := t.require("from", "to", "cost"); err != nil {
 		return nil, nil, err
 	}
@@ -163,7 +188,7 @@ func readCSVNetwork(data []byte, lanesFile string, nodes io.Reader, nodesFile st
 		return nil, nil, err
 	}
 	if rows == 0 {
-		return nil, nil, &ParseError{File: lanesFile, Line: 2, Err: fmt.Errorf("%w: the lane table has no rows", ErrEmpty)}
+		return nil, nil, t.errorAt(t.headLine+1, 0, "", "", fmt.Errorf("%w: the lane table has no rows", ErrEmpty))
 	}
 	n.Nodes = idx.names
 	n.Extra = extra
@@ -177,6 +202,10 @@ func readCSVNetwork(data []byte, lanesFile string, nodes io.Reader, nodesFile st
 		supply.add(Decimal{})
 	}
 	if err := n.finishScales(lanesFile, &supply, &lower, &upper, &rate); err != nil {
+		var pe *ParseError
+		if errors.As(err, &pe) && pe.Sheet == "" {
+			pe.Sheet = t.sheet
+		}
 		return nil, nil, err
 	}
 	return n, plan, nil
@@ -212,17 +241,13 @@ func (n *Network) finishScales(file string, supply, lower, upper, rate *rawQty) 
 	return nil
 }
 
-func readNodeTable(rd io.Reader, file string, opt TableOptions, idx *nodeIndex) (rawQty, *ExtraColumns, error) {
+func readNodeTable(open tableOpener, idx *nodeIndex) (rawQty, *ExtraColumns, error) {
 	var supply rawQty
-	data, err := io.ReadAll(rd)
-	if err != nil {
-		return supply, nil, fmt.Errorf("flow: reading %s: %w", file, err)
-	}
-	e := &errs{file: file}
-	t, err := openTable(data, file, opt, nodeColumns, e)
+	t, err := open(nodeColumns)
 	if err != nil {
 		return supply, nil, err
 	}
+	e := t.e
 	if err := t.require("node"); err != nil {
 		return supply, nil, err
 	}
@@ -291,7 +316,7 @@ func readNodeTable(rd io.Reader, file string, opt TableOptions, idx *nodeIndex) 
 		return supply, nil, err
 	}
 	if rows == 0 {
-		return supply, nil, &ParseError{File: file, Line: 2, Err: fmt.Errorf("%w: the node table has no rows", ErrEmpty)}
+		return supply, nil, t.errorAt(t.headLine+1, 0, "", "", fmt.Errorf("%w: the node table has no rows", ErrEmpty))
 	}
 	return supply, extra, nil
 }

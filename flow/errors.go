@@ -23,8 +23,14 @@ var (
 // ParseError is an input error with its position. Line and Col are 1-based;
 // Col counts bytes from the start of the line (0 when the whole line or file
 // is meant). Field names the column or the DIMACS field.
+//
+// In a workbook (Sheet != ""), Line is the sheet's row number and Col the
+// column number (1 for column A), both 1-based; the message names the cell,
+// as in `net.xlsx: sheet "lanes" cell D7: cost "abc": ...`, or the row
+// ("row 7") when Col is 0, or only the sheet when Line is 0.
 type ParseError struct {
 	File      string
+	Sheet     string // worksheet of a workbook, "" for text files
 	Line, Col int
 	Field     string
 	Text      string // the offending text, if any
@@ -34,7 +40,15 @@ type ParseError struct {
 func (e *ParseError) Error() string {
 	var b strings.Builder
 	b.WriteString(e.File)
-	if e.Line > 0 {
+	if e.Sheet != "" {
+		fmt.Fprintf(&b, ": sheet %q", clip(e.Sheet))
+		switch {
+		case e.Line > 0 && e.Col > 0:
+			fmt.Fprintf(&b, " cell %s%d", ColumnName(e.Col), e.Line)
+		case e.Line > 0:
+			fmt.Fprintf(&b, " row %d", e.Line)
+		}
+	} else if e.Line > 0 {
 		fmt.Fprintf(&b, ":%d", e.Line)
 		if e.Col > 0 {
 			fmt.Fprintf(&b, ":%d", e.Col)
@@ -55,6 +69,20 @@ func (e *ParseError) Error() string {
 }
 
 func (e *ParseError) Unwrap() error { return e.Err }
+
+// ColumnName returns the spreadsheet name of column c (1-based): 1 is "A",
+// 26 "Z", 27 "AA". It returns "" for c < 1.
+func ColumnName(c int) string {
+	var buf [8]byte
+	i := len(buf)
+	for c > 0 && i > 0 {
+		c--
+		i--
+		buf[i] = byte('A' + c%26)
+		c /= 26
+	}
+	return string(buf[i:])
+}
 
 func clip(s string) string {
 	const max = 40
@@ -109,6 +137,9 @@ func (l ErrorList) sortAndErr() error {
 		if a.File != b.File {
 			return a.File < b.File
 		}
+		if a.Sheet != b.Sheet {
+			return a.Sheet < b.Sheet
+		}
 		if a.Line != b.Line {
 			return a.Line < b.Line
 		}
@@ -119,13 +150,14 @@ func (l ErrorList) sortAndErr() error {
 
 // errs collects parse errors up to maxKept.
 type errs struct {
-	list ErrorList
-	file string
+	list  ErrorList
+	file  string
+	sheet string
 }
 
 func (c *errs) add(line, col int, field, text string, err error) {
 	if len(c.list) < maxKept {
-		c.list = append(c.list, &ParseError{File: c.file, Line: line, Col: col, Field: field, Text: text, Err: err})
+		c.list = append(c.list, &ParseError{File: c.file, Sheet: c.sheet, Line: line, Col: col, Field: field, Text: text, Err: err})
 	}
 }
 

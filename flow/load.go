@@ -11,7 +11,8 @@ import (
 
 // Files names the input files of a network and a plan.
 type Files struct {
-	// Network is a lane table (CSV) or a DIMACS .min file.
+	// Network is a lane table (CSV), a DIMACS .min file, a workbook
+	// (.xlsx, read by ReadXLSX) or a tableau grid (CSV, read by ReadGrid).
 	Network string
 	// Nodes is a node table (CSV); only with a lane table.
 	Nodes string
@@ -20,6 +21,15 @@ type Files struct {
 	Plan string
 	// Table controls the CSV readers.
 	Table TableOptions
+	// Grid reads Network as a tableau grid (ReadGrid) and Plan, unless it
+	// is DIMACS, as a plan grid (ReadGridPlan). Without it, a CSV network
+	// whose first line ends in a "supply" cell and has no from, to or node
+	// column is read as a grid all the same, and then a CSV plan without a
+	// flow column is read as a plan grid.
+	Grid bool
+	// LaneSheet and NodeSheet choose the worksheets of an .xlsx network
+	// (see XLSXOptions; empty: "lanes" and "nodes").
+	LaneSheet, NodeSheet string
 	// Tolerance, if not nil, lets plan quantities from a floating-point
 	// solver be rounded to the network's places (see RawPlan.Bind).
 	Tolerance *Decimal
@@ -36,7 +46,9 @@ type Loaded struct {
 }
 
 // LoadFiles reads the files named by f, telling DIMACS from CSV by the file
-// name's extension (.min, .dimacs, .net / .flow, .sol) or else by content.
+// name's extension (.min, .dimacs, .net / .flow, .sol) or else by content,
+// a workbook by the extension .xlsx, and a tableau grid by f.Grid or by its
+// first line (see Files.Grid).
 func LoadFiles(f Files) (*Loaded, error) {
 	data, err := os.ReadFile(f.Network)
 	if err != nil {
@@ -44,14 +56,31 @@ func LoadFiles(f Files) (*Loaded, error) {
 	}
 	out := &Loaded{}
 	var raw *RawPlan
-	if isDIMACS(f.Network, data) {
+	isXLSX := strings.EqualFold(filepath.Ext(f.Network), ".xlsx")
+	switch {
+	case isXLSX || f.Grid || (!isDIMACS(f.Network, data) && isGridText(data)):
+		if f.Nodes != "" {
+			return nil, fmt.Errorf("flow: %s is a workbook or a tableau grid: its supplies and demands are inside it, a node table does not apply", f.Network)
+		}
+		if isXLSX {
+			out.Net, raw, err = ReadXLSX(bytes.NewReader(data), f.Network, XLSXOptions{Table: f.Table, LaneSheet: f.LaneSheet, NodeSheet: f.NodeSheet})
+			if raw != nil {
+				out.PlanFile = f.Network + " (flow column)"
+			}
+		} else {
+			out.Net, err = ReadGrid(bytes.NewReader(data), f.Network, f.Table)
+		}
+		if err != nil {
+			return nil, err
+		}
+	case isDIMACS(f.Network, data):
 		if f.Nodes != "" {
 			return nil, fmt.Errorf("flow: %s is a DIMACS file: its nodes come from its n lines, a node table does not apply", f.Network)
 		}
 		if out.Net, err = parseDIMACS(data, f.Network); err != nil {
 			return nil, err
 		}
-	} else {
+	default:
 		var nr io.Reader // stays a nil interface without a node table
 		if f.Nodes != "" {
 			nd, err := os.ReadFile(f.Nodes)
@@ -72,9 +101,12 @@ func LoadFiles(f Files) (*Loaded, error) {
 		if err != nil {
 			return nil, fmt.Errorf("flow: %w", err)
 		}
-		if isDIMACSPlan(f.Plan, pd) {
+		switch {
+		case isDIMACSPlan(f.Plan, pd):
 			raw, err = ReadDIMACSPlan(bytes.NewReader(pd), f.Plan, out.Net)
-		} else {
+		case out.Net.Grid != nil && (f.Grid || !isPlanTable(pd, f.Table)):
+			raw, err = ReadGridPlan(bytes.NewReader(pd), f.Plan, out.Net, f.Table)
+		default:
 			raw, err = ReadCSVPlan(bytes.NewReader(pd), f.Plan, out.Net, f.Table)
 		}
 		if err != nil {

@@ -41,6 +41,12 @@ type Network struct {
 	Extra *ExtraColumns
 	// NodeExtra holds extra columns of the node table. May be nil.
 	NodeExtra *ExtraColumns
+
+	// Grid, when not nil, records that the network was read from a tableau
+	// grid (ReadGrid): its origins and destinations in row and column
+	// order, so a plan can be read and written in the same shape. Code that
+	// adds or removes lanes or nodes must set it to nil.
+	Grid *GridShape
 }
 
 // ExtraColumns holds carried text columns: Values[i][c] is the value of

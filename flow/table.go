@@ -21,16 +21,27 @@ type TableOptions struct {
 	DecimalComma bool
 }
 
-// table is a CSV table being read: the header's column indexes by our
-// column name, and the reader positioned after the header.
+// rowSource yields the rows of a table with the position of each field.
+// *csv.Reader is one; a worksheet (xlsx.go) is another, whose positions are
+// the sheet row and the column number.
+type rowSource interface {
+	Read() ([]string, error)
+	FieldPos(field int) (line, column int)
+}
+
+// table is a table being read (CSV text or a worksheet): the header's
+// column indexes by our column name, and the source positioned after the
+// header.
 type table struct {
-	file  string
-	r     *csv.Reader
-	cols  map[string]int // our name -> field index
-	names []string       // header as written
-	extra []int          // indexes of columns we do not use
-	e     *errs
-	comma bool
+	file     string
+	sheet    string // worksheet name, "" for CSV
+	headLine int    // line (or sheet row) of the header
+	r        rowSource
+	cols     map[string]int // our name -> field index
+	names    []string       // header as written
+	extra    []int          // indexes of columns we do not use
+	e        *errs
+	comma    bool
 }
 
 // synonyms maps accepted header names onto lanecert's column names.
@@ -54,11 +65,10 @@ func synonym(h string) string {
 	return h
 }
 
-// openTable reads the header of a CSV table: it strips a UTF-8 byte order
-// mark, detects the delimiter (',' ';' or tab) from the header line, and
-// maps the header names onto our column names (known lists the names we
-// use; any other column is kept as extra).
-func openTable(data []byte, file string, opt TableOptions, known []string, e *errs) (*table, error) {
+// newCSVReader strips a UTF-8 byte order mark, rejects empty text, and
+// returns a CSV reader whose delimiter (',' ';' or tab) is detected from the
+// first line.
+func newCSVReader(data []byte, file string) (*csv.Reader, error) {
 	data = bytes.TrimPrefix(data, []byte("\xef\xbb\xbf"))
 	if len(bytes.TrimSpace(data)) == 0 {
 		return nil, &ParseError{File: file, Err: ErrEmpty}
@@ -74,11 +84,28 @@ func openTable(data []byte, file string, opt TableOptions, known []string, e *er
 	r := csv.NewReader(bytes.NewReader(data))
 	r.Comma = delim
 	r.ReuseRecord = true
+	return r, nil
+}
+
+// openTable reads the header of a CSV table (see newCSVReader) and maps the
+// header names onto our column names (known lists the names we use; any
+// other column is kept as extra).
+func openTable(data []byte, file string, opt TableOptions, known []string, e *errs) (*table, error) {
+	r, err := newCSVReader(data, file)
+	if err != nil {
+		return nil, err
+	}
 	header, err := r.Read()
 	if err != nil {
 		return nil, csvError(file, err)
 	}
-	t := &table{file: file, r: r, cols: map[string]int{}, e: e, comma: opt.DecimalComma}
+	t := &table{file: file, headLine: 1, r: r, e: e, comma: opt.DecimalComma}
+	return t, t.mapHeader(header, opt, known)
+}
+
+// mapHeader maps the header names onto our column names.
+func (t *table) mapHeader(header []string, opt TableOptions, known []string) error {
+	t.cols = map[string]int{}
 	t.names = append([]string(nil), header...)
 	alias := map[string]string{}
 	for k, v := range opt.Columns {
@@ -100,13 +127,18 @@ func openTable(data []byte, file string, opt TableOptions, known []string, e *er
 			continue
 		}
 		if j, dup := t.cols[key]; dup {
-			line, col := r.FieldPos(i)
-			return nil, &ParseError{File: file, Line: line, Col: col, Field: "header", Text: h,
-				Err: fmt.Errorf("%w: column %q is also given by header %q (column %d)", ErrAmbiguous, key, header[j], j+1)}
+			line, col := t.r.FieldPos(i)
+			return t.errorAt(line, col, "header", h,
+				fmt.Errorf("%w: column %q is also given by header %q (column %d)", ErrAmbiguous, key, header[j], j+1))
 		}
 		t.cols[key] = i
 	}
-	return t, nil
+	return nil
+}
+
+// errorAt returns a ParseError in t's file (and sheet).
+func (t *table) errorAt(line, col int, field, text string, err error) *ParseError {
+	return &ParseError{File: t.file, Sheet: t.sheet, Line: line, Col: col, Field: field, Text: text, Err: err}
 }
 
 func detectDelimiter(head []byte) (rune, error) {
@@ -160,9 +192,9 @@ func (t *table) require(want ...string) error {
 	if len(missing) == 0 {
 		return nil
 	}
-	return &ParseError{File: t.file, Line: 1, Field: "header",
-		Err: fmt.Errorf("%w: want column(s) %s; the header has %s (use a column mapping for other names)",
-			ErrMissingColumn, strings.Join(missing, ", "), quoteList(t.names))}
+	return t.errorAt(t.headLine, 0, "header", "",
+		fmt.Errorf("%w: want column(s) %s; the header has %s (use a column mapping for other names)",
+			ErrMissingColumn, strings.Join(missing, ", "), quoteList(t.names)))
 }
 
 func quoteList(s []string) string {

@@ -18,6 +18,7 @@ const (
 	PlanCSV    PlanFormat = "csv"    // the lane table with a flow column
 	PlanDIMACS PlanFormat = "dimacs" // DIMACS s and f lines
 	PlanJSON   PlanFormat = "json"
+	PlanGrid   PlanFormat = "grid" // a tableau grid, for networks read from one
 )
 
 // PlanFormatFor picks the plan format: the one named (csv, dimacs, json),
@@ -31,9 +32,11 @@ func PlanFormatFor(name, output string) (PlanFormat, error) {
 		return PlanDIMACS, nil
 	case "json":
 		return PlanJSON, nil
+	case "grid":
+		return PlanGrid, nil
 	case "":
 	default:
-		return "", fmt.Errorf("reports: unknown plan format %q: want csv, dimacs or json", name)
+		return "", fmt.Errorf("reports: unknown plan format %q: want csv, dimacs, json or grid", name)
 	}
 	switch strings.ToLower(filepath.Ext(output)) {
 	case ".flow", ".sol":
@@ -64,6 +67,8 @@ type planLaneDoc struct {
 // WritePlan writes plan x of network n with its cost in format f.
 func WritePlan(w io.Writer, n *flow.Network, x []int64, cost flow.Wide, f PlanFormat) error {
 	switch f {
+	case PlanGrid:
+		return flow.WriteGridPlan(w, n, x)
 	case PlanDIMACS:
 		return flow.WriteDIMACSPlan(w, n, x, cost)
 	case PlanJSON:

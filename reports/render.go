@@ -12,6 +12,9 @@ import (
 	"github.com/olekukonko/tablewriter"
 	"github.com/olekukonko/tablewriter/renderer"
 	"github.com/olekukonko/tablewriter/tw"
+
+	"lanecert/dual"
+	"lanecert/flow"
 )
 
 // Format is an output format.
@@ -28,7 +31,7 @@ const (
 // ParseFormat returns the format named s.
 func ParseFormat(s string) (Format, error) {
 	switch f := Format(strings.ToLower(s)); f {
-	case Text, JSON, CSV, Markdown:
+	case Text, JSON, CSV, Markdown, HTML, DOT:
 		return f, nil
 	case "text", "md":
 		if f == "md" {
@@ -36,7 +39,7 @@ func ParseFormat(s string) (Format, error) {
 		}
 		return Text, nil
 	}
-	return "", fmt.Errorf("reports: unknown format %q: want table, json, csv or markdown", s)
+	return "", fmt.Errorf("reports: unknown format %q: want table, json, csv, markdown, html or dot", s)
 }
 
 // Options controls the human formats (table and Markdown).
@@ -49,15 +52,23 @@ type Options struct {
 	Nodes bool
 }
 
+// DOT is the network in the DOT language with lane states (see
+// flow.WriteDOT).
+const DOT Format = "dot"
+
 // Write renders d in format f.
 func Write(w io.Writer, d *Document, f Format, opt Options) error {
 	switch f {
+	case DOT:
+		return flow.WriteDOT(w, d.net, d.audit.Flow, d.dotState)
 	case JSON:
 		return writeJSON(w, d)
 	case CSV:
 		return writeCSV(w, d)
 	case Markdown:
 		return writeHuman(w, d, opt, true)
+	case HTML:
+		return writeHTML(w, d, opt)
 	}
 	return writeHuman(w, d, opt, false)
 }
@@ -121,6 +132,20 @@ func writeCSV(w io.Writer, d *Document) error {
 	}
 	cw.Flush()
 	return cw.Error()
+}
+
+// dotState names a lane's state for the DOT drawing: breaking a bound or
+// complementary slackness first, then full, unused or used.
+func (d *Document) dotState(e flow.LaneID) string {
+	switch st := d.audit.State[e]; {
+	case st == dual.OutOfBounds || d.broken[e]:
+		return flow.LaneBreaking
+	case st == dual.AtCapacity:
+		return flow.LaneFull
+	case st == dual.Unused:
+		return flow.LaneUnused
+	}
+	return flow.LaneUsed
 }
 
 // SafeCells neutralises spreadsheet formula injection: a cell that starts

@@ -24,6 +24,7 @@ type auditOptions struct {
 	allLanes  bool
 	showNodes bool
 	noSolve   bool
+	rowsSet   bool
 	ranges    bool
 	noRanges  bool
 	shortfall string
@@ -44,12 +45,15 @@ func addInputFlags(cmd *cobra.Command, o *auditOptions) {
 	f.StringVar(&o.files.Plan, "plan", "", "plan file: CSV keyed by lane or by from,to, or DIMACS f lines (default: the lane table's flow column)")
 	f.StringArrayVar(&o.columns, "col", nil, "read a column under another header: OURS=THEIRS, e.g. cost=rate_usd (repeatable)")
 	f.BoolVar(&o.files.Table.DecimalComma, "decimal-comma", false, "numbers in the CSV files use a decimal comma (12,50)")
+	f.BoolVar(&o.files.Grid, "grid", false, "the network (and a CSV plan) are tableau grids: origins as rows, destinations as columns, rates in the cells, a supply column and a demand row (detected from the header when not given)")
+	f.StringVar(&o.files.LaneSheet, "lane-sheet", "", "worksheet of the lane table in an .xlsx network (default: lanes)")
+	f.StringVar(&o.files.NodeSheet, "node-sheet", "", "worksheet of the node table in an .xlsx network (default: nodes)")
 	f.StringVar(&o.tolerance, "tolerance", "", "round plan quantities lying within this distance of the network's decimal places (for plans from floating-point solvers); the report lists each rounding")
 }
 
 func addOutputFlags(cmd *cobra.Command, o *auditOptions) {
 	f := cmd.Flags()
-	f.StringVar(&o.format, "format", "table", "output format: table, json, csv or markdown")
+	f.StringVar(&o.format, "format", "table", "output format: table, json, csv, markdown, html (one self-contained page with a drawing and charts) or dot (the network for Graphviz)")
 	f.StringVarP(&o.output, "output", "o", "", "write the report to this file (atomically) instead of standard output")
 	f.IntVar(&o.rows, "rows", defaultRows, "lanes shown in the lane table, problem lanes first (0: all)")
 	f.BoolVar(&o.allLanes, "all-lanes", false, "show every lane in the lane table")
@@ -81,6 +85,7 @@ equals the plan's cost (optimal), improving cycles with their exact saving
 			if err := o.positional(args); err != nil {
 				return err
 			}
+			o.rowsSet = o.rowsSet || cmd.Flags().Changed("rows")
 			if runF != nil {
 				return runF(o)
 			}
@@ -89,6 +94,18 @@ equals the plan's cost (optimal), improving cycles with their exact saving
 	}
 	addInputFlags(cmd, o)
 	addOutputFlags(cmd, o)
+	return cmd
+}
+
+// newReportCmd is the audit with an HTML page as its default output.
+func newReportCmd(s streams, runF func(*auditOptions) error) *cobra.Command {
+	cmd := newAuditCmd(s, runF)
+	cmd.Use = "report [NETWORK [PLAN]] -o FILE.html"
+	cmd.Short = "Write the audit as one self-contained HTML page (drawing, tables, charts)"
+	cmd.Flags().Lookup("format").DefValue = "html"
+	if err := cmd.Flags().Set("format", "html"); err != nil {
+		panic(err) // the flag is defined just above
+	}
 	return cmd
 }
 
@@ -132,7 +149,7 @@ func (o *auditOptions) prepare() error {
 		o.files.Tolerance = &d
 	}
 	if o.allLanes {
-		o.rows = 0
+		o.rows, o.rowsSet = 0, true
 	}
 	if o.rows < 0 {
 		return fmt.Errorf("--rows %d: want 0 (all) or more", o.rows)
@@ -214,6 +231,9 @@ func runAudit(o *auditOptions, s streams) error {
 		doc.AddRanges(opt.Flow, sens, forPlan)
 	}
 	ropt := reports.Options{Rows: o.rows, MoreHint: " (--all-lanes shows them)", Nodes: o.showNodes}
+	if format == reports.HTML && !o.rowsSet {
+		ropt.Rows = 0 // the page sorts and filters the whole table
+	}
 	write := func(w io.Writer) error { return reports.Write(w, doc, format, ropt) }
 	if o.output != "" {
 		err = reports.WriteAtomic(o.output, []string{o.files.Network, o.files.Nodes, o.files.Plan}, write)

@@ -425,3 +425,41 @@ func TestShortfallPricePerNode(t *testing.T) {
 		t.Fatalf("optimum with a per-node price of 1: %v, with 1000 everywhere: %v", a, b)
 	}
 }
+
+// TestGridRoundTrip: a tableau grid (Winston's Powerco example, see
+// testdata/tableau/README.md) solved to a grid, read back, audits optimal.
+func TestGridRoundTrip(t *testing.T) {
+	dir := t.TempDir()
+	out := filepath.Join(dir, "best.csv")
+	grid := "../../testdata/tableau/powerco.csv"
+	if code, _, errText := runCLI(t, "solve", grid, "-o", out); code != exitOptimal {
+		t.Fatalf("solve: exit %d %s", code, errText)
+	}
+	b, _ := os.ReadFile(out)
+	if !strings.HasPrefix(string(b), "Powerco,City 1,") {
+		t.Fatalf("not written as a grid:\n%s", b)
+	}
+	code, text, _ := runCLI(t, "audit", grid, out, "--format", "json", "--no-ranges")
+	// Winston, Powerco: optimal cost 1020 (edition from memory).
+	if code != exitOptimal || !strings.Contains(text, `"plan_cost": "1020"`) {
+		t.Fatalf("audit of the written grid: exit %d\n%s", code, text)
+	}
+}
+
+func TestReportAndDOT(t *testing.T) {
+	dir := t.TempDir()
+	page := filepath.Join(dir, "audit.html")
+	ref := "../../testdata/reference/"
+	if code, _, errText := runCLI(t, "report", ref+"glpk_sample.min", ref+"glpk_sample.flow", "-o", page); code != exitOptimal {
+		t.Fatalf("report: exit %d %s", code, errText)
+	}
+	b, _ := os.ReadFile(page)
+	if !bytes.HasPrefix(b, []byte("<!DOCTYPE html>")) || !bytes.Contains(b, []byte("data-lane")) {
+		t.Fatalf("not an HTML report: %.200s", b)
+	}
+	code, out, _ := runCLI(t, "audit", ref+"glpk_sample.min", ref+"glpk_sample.flow", "--format", "dot")
+	// 14 arcs in glpk_sample.min: 14 edges in the drawing.
+	if code != exitOptimal || !strings.HasPrefix(out, "digraph") || strings.Count(out, " -> ") != 14 {
+		t.Fatalf("dot: exit %d, %d edges\n%s", code, strings.Count(out, " -> "), out)
+	}
+}

@@ -55,7 +55,7 @@ local regulations and licensed practice.
 	root.SetOut(s.out)
 	root.SetErr(s.err)
 	root.SetIn(s.in)
-	root.AddCommand(newAuditCmd(s, nil), newSolveCmd(s, nil), newRepairCmd(s, nil), newWhyCmd(s, nil), newBidsCmd(s, nil), newExtendCmd(s, nil), newDemoCmd(s, nil))
+	root.AddCommand(newAuditCmd(s, nil), newReportCmd(s, nil), newSolveCmd(s, nil), newRepairCmd(s, nil), newWhyCmd(s, nil), newBidsCmd(s, nil), newExtendCmd(s, nil), newDemoCmd(s, nil))
 	return root
 }
 

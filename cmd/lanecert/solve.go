@@ -83,7 +83,7 @@ error.
 func addPlanFlags(cmd *cobra.Command, o *planOptions) {
 	addInputFlags(cmd, &o.in)
 	f := cmd.Flags()
-	f.StringVar(&o.format, "format", "", "plan format: csv, dimacs or json (default: from the output file's extension, else csv)")
+	f.StringVar(&o.format, "format", "", "plan format: csv, dimacs, json or grid (default: from the output file's extension, else csv; a grid for a network read from a tableau grid)")
 	f.StringVarP(&o.output, "output", "o", "", "write the plan to this file (atomically) instead of standard output")
 }
 
@@ -98,6 +98,9 @@ func runPlan(o *planOptions, s streams) error {
 	in, err := flow.LoadFiles(o.in.files)
 	if err != nil {
 		return err
+	}
+	if in.Net.Grid != nil && o.format == "" && format == reports.PlanCSV {
+		format = reports.PlanGrid // a grid comes back as a grid
 	}
 	var start []int64
 	if o.repair {
