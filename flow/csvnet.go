@@ -93,9 +93,10 @@ func readNetwork(lanes, nodes tableOpener) (*Network, *RawPlan, error) {
 	idx := &nodeIndex{ids: map[string]NodeID{}}
 	var supply rawQty
 	var nodeExtra *ExtraColumns
+	var notes []string
 	if nodes != nil {
 		var err error
-		supply, nodeExtra, err = readNodeTable(nodes, idx)
+		supply, nodeExtra, notes, err = readNodeTable(nodes, idx)
 		if err != nil {
 			return nil, nil, err
 		}
@@ -192,6 +193,7 @@ func readNetwork(lanes, nodes tableOpener) (*Network, *RawPlan, error) {
 	}
 	n.Nodes = idx.names
 	n.Extra = extra
+	n.Notes = append(notes, t.notes()...)
 	if nodeExtra != nil {
 		for len(nodeExtra.Values) < len(n.Nodes) {
 			nodeExtra.Values = append(nodeExtra.Values, nil)
@@ -241,20 +243,28 @@ func (n *Network) finishScales(file string, supply, lower, upper, rate *rawQty) 
 	return nil
 }
 
-func readNodeTable(open tableOpener, idx *nodeIndex) (rawQty, *ExtraColumns, error) {
+func readNodeTable(open tableOpener, idx *nodeIndex) (rawQty, *ExtraColumns, []string, error) {
+	supply, extra, t, err := readNodeRows(open, idx)
+	if err != nil {
+		return supply, nil, nil, err
+	}
+	return supply, extra, t.notes(), nil
+}
+
+func readNodeRows(open tableOpener, idx *nodeIndex) (rawQty, *ExtraColumns, *table, error) {
 	var supply rawQty
 	t, err := open(nodeColumns)
 	if err != nil {
-		return supply, nil, err
+		return supply, nil, nil, err
 	}
 	e := t.e
 	if err := t.require("node"); err != nil {
-		return supply, nil, err
+		return supply, nil, nil, err
 	}
 	_, hasS := t.cols["supply"]
 	_, hasD := t.cols["demand"]
 	if !hasS && !hasD {
-		return supply, nil, t.require("supply")
+		return supply, nil, nil, t.require("supply")
 	}
 	var extra *ExtraColumns
 	if len(t.extra) > 0 {
@@ -310,15 +320,15 @@ func readNodeTable(open tableOpener, idx *nodeIndex) (rawQty, *ExtraColumns, err
 		}
 	})
 	if err != nil {
-		return supply, nil, err
+		return supply, nil, nil, err
 	}
 	if err := e.list.sortAndErr(); err != nil {
-		return supply, nil, err
+		return supply, nil, nil, err
 	}
 	if rows == 0 {
-		return supply, nil, t.errorAt(t.headLine+1, 0, "", "", fmt.Errorf("%w: the node table has no rows", ErrEmpty))
+		return supply, nil, nil, t.errorAt(t.headLine+1, 0, "", "", fmt.Errorf("%w: the node table has no rows", ErrEmpty))
 	}
-	return supply, extra, nil
+	return supply, extra, t, nil
 }
 
 // laneIDs collects lane identifiers in one byte arena with their

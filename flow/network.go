@@ -42,6 +42,10 @@ type Network struct {
 	// NodeExtra holds extra columns of the node table. May be nil.
 	NodeExtra *ExtraColumns
 
+	// Notes say how the input was read where the readers decided something
+	// themselves (a decimal comma detected); reports show them.
+	Notes []string
+
 	// Grid, when not nil, records that the network was read from a tableau
 	// grid (ReadGrid): its origins and destinations in row and column
 	// order, so a plan can be read and written in the same shape. Code that

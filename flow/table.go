@@ -42,6 +42,21 @@ type table struct {
 	extra    []int          // indexes of columns we do not use
 	e        *errs
 	comma    bool
+	// detect is set for CSV tables with ';' or tab delimiters read without
+	// DecimalComma: a number with a comma and no point then switches the
+	// table to decimal commas (commaLine records where), and mixing the two
+	// styles is an error rather than a guess.
+	detect              bool
+	commaLine, pointLine int
+}
+
+// notes says how the table was read where that was detected rather than
+// asked for.
+func (t *table) notes() []string {
+	if t.commaLine > 0 {
+		return []string{fmt.Sprintf("%s: numbers read with a decimal comma (detected at line %d; no decimal point appears in the file)", t.file, t.commaLine)}
+	}
+	return nil
 }
 
 // synonyms maps accepted header names onto lanecert's column names.
@@ -100,6 +115,7 @@ func openTable(data []byte, file string, opt TableOptions, known []string, e *er
 		return nil, csvError(file, err)
 	}
 	t := &table{file: file, headLine: 1, r: r, e: e, comma: opt.DecimalComma}
+	t.detect = !opt.DecimalComma && r.Comma != ','
 	return t, t.mapHeader(header, opt, known)
 }
 
@@ -273,6 +289,24 @@ func (r *row) decimal(col string, allowEmpty bool, def Decimal) (Decimal, bool) 
 		}
 		r.fail(col, fmt.Errorf("%w: want a decimal, the cell is empty", ErrNotDecimal))
 		return Decimal{}, false
+	}
+	if t := r.t; t.detect {
+		line, _ := r.pos(col)
+		hasComma, hasPoint := strings.Contains(s, ","), strings.Contains(s, ".")
+		switch {
+		case hasComma && !hasPoint && t.pointLine > 0:
+			r.fail(col, fmt.Errorf("%w: a decimal comma here, but line %d has a decimal point: say which the file uses (--decimal-comma)", ErrAmbiguous, t.pointLine))
+			return Decimal{}, false
+		case hasComma && !hasPoint:
+			if !t.comma {
+				t.comma, t.commaLine = true, line
+			}
+		case hasPoint && t.comma:
+			r.fail(col, fmt.Errorf("%w: a decimal point here, but line %d has a decimal comma: say which the file uses (--decimal-comma)", ErrAmbiguous, t.commaLine))
+			return Decimal{}, false
+		case hasPoint && t.pointLine == 0:
+			t.pointLine = line
+		}
 	}
 	var d Decimal
 	var err error

@@ -55,6 +55,7 @@ type Document struct {
 	Repair        []ChangeDoc `json:"repair"`
 	RangesFor     string      `json:"ranges_for,omitempty"`
 	ExtraColumns  []string    `json:"extra_columns"`
+	Notes         []string    `json:"notes"`
 	Caution       string      `json:"caution"`
 	order         []int       // lanes, problem lanes first
 	net           *flow.Network
@@ -220,6 +221,7 @@ func Build(a *dual.Audit, opt *dual.Optimum, in Inputs, rounded []flow.Rounding)
 		Cycles:       []CycleDoc{},
 		Repair:       []ChangeDoc{},
 		ExtraColumns: []string{},
+		Notes:        append([]string{}, n.Notes...),
 		Caution:      Caution,
 		net:          n,
 	}

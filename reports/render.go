@@ -223,6 +223,9 @@ func writeHuman(w io.Writer, d *Document, opt Options, md bool) error {
 	}
 	p.gap()
 	p.kv("Network", netLine(d))
+	for _, note := range d.Notes {
+		p.kv("Read", note)
+	}
 	p.kv("Plan", d.Inputs.Plan)
 	p.kv("Plan cost", d.PlanCost)
 	switch {
