@@ -46,7 +46,7 @@ type table struct {
 	// DecimalComma: a number with a comma and no point then switches the
 	// table to decimal commas (commaLine records where), and mixing the two
 	// styles is an error rather than a guess.
-	detect              bool
+	detect               bool
 	commaLine, pointLine int
 }
 
