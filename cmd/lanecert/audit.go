@@ -158,14 +158,11 @@ func (o *auditOptions) prepare() error {
 }
 
 func runAudit(o *auditOptions, s streams) error {
-	if err := o.prepare(); err != nil {
-		return err
-	}
 	format, err := reports.ParseFormat(o.format)
 	if err != nil {
 		return err
 	}
-	in, err := flow.LoadFiles(o.files)
+	in, err := load(o)
 	if err != nil {
 		return err
 	}
@@ -234,13 +231,7 @@ func runAudit(o *auditOptions, s streams) error {
 	if format == reports.HTML && !o.rowsSet {
 		ropt.Rows = 0 // the page sorts and filters the whole table
 	}
-	write := func(w io.Writer) error { return reports.Write(w, doc, format, ropt) }
-	if o.output != "" {
-		err = reports.WriteAtomic(o.output, []string{o.files.Network, o.files.Nodes, o.files.Plan}, write)
-	} else {
-		err = write(s.out)
-	}
-	if err != nil {
+	if err := emit(o.output, o.inputs(), s, func(w io.Writer) error { return reports.Write(w, doc, format, ropt) }); err != nil {
 		return err
 	}
 	return verdictStatus(doc.Verdict)

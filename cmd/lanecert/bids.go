@@ -48,14 +48,11 @@ taken together and its saving.`,
 }
 
 func runBids(o *bidsOptions, s streams) error {
-	if err := o.in.prepare(); err != nil {
-		return err
-	}
 	format, err := reports.ParseFormat(o.format)
 	if err != nil {
 		return err
 	}
-	in, err := flow.LoadFiles(o.in.files)
+	in, err := load(&o.in)
 	if err != nil {
 		return err
 	}
@@ -78,9 +75,5 @@ func runBids(o *bidsOptions, s streams) error {
 		return err
 	}
 	doc := reports.BuildBids(n, opt.Cost, cands, res, set)
-	write := func(w io.Writer) error { return reports.WriteBids(w, doc, format) }
-	if o.output != "" {
-		return reports.WriteAtomic(o.output, []string{o.in.files.Network, o.in.files.Nodes, o.in.files.Plan, o.bids}, write)
-	}
-	return write(s.out)
+	return emit(o.output, o.in.inputs(o.bids), s, func(w io.Writer) error { return reports.WriteBids(w, doc, format) })
 }

@@ -68,14 +68,11 @@ with the candidates, 4 bad input or usage.`,
 }
 
 func runExtend(o *extendOptions, s streams) error {
-	if err := o.in.prepare(); err != nil {
-		return err
-	}
 	format, err := reports.ParseFormat(o.format)
 	if err != nil {
 		return err
 	}
-	in, err := flow.LoadFiles(o.in.files)
+	in, err := load(&o.in)
 	if err != nil {
 		return err
 	}
@@ -124,13 +121,7 @@ func runExtend(o *extendOptions, s streams) error {
 		return err
 	}
 	doc := reports.BuildExtend(n, cands, km, cut, x)
-	write := func(w io.Writer) error { return reports.WriteExtend(w, doc, format) }
-	if o.output != "" {
-		err = reports.WriteAtomic(o.output, []string{o.in.files.Network, o.in.files.Nodes, o.in.files.Plan, o.candidates}, write)
-	} else {
-		err = write(s.out)
-	}
-	if err != nil {
+	if err := emit(o.output, o.in.inputs(o.candidates), s, func(w io.Writer) error { return reports.WriteExtend(w, doc, format) }); err != nil {
 		return err
 	}
 	if !x.Feasible {

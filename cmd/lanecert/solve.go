@@ -88,14 +88,11 @@ func addPlanFlags(cmd *cobra.Command, o *planOptions) {
 }
 
 func runPlan(o *planOptions, s streams) error {
-	if err := o.in.prepare(); err != nil {
-		return err
-	}
 	format, err := reports.PlanFormatFor(o.format, o.output)
 	if err != nil {
 		return err
 	}
-	in, err := flow.LoadFiles(o.in.files)
+	in, err := load(&o.in)
 	if err != nil {
 		return err
 	}
@@ -150,11 +147,7 @@ func runPlan(o *planOptions, s streams) error {
 				in.Net.FormatQty(c.Old), in.Net.FormatQty(c.New), in.Net.FormatCost(c.CostChange))
 		}
 	}
-	write := func(w io.Writer) error { return reports.WritePlan(w, in.Net, opt.Flow, opt.Cost, format) }
-	if o.output != "" {
-		return reports.WriteAtomic(o.output, []string{o.in.files.Network, o.in.files.Nodes, o.in.files.Plan}, write)
-	}
-	return write(s.out)
+	return emit(o.output, o.in.inputs(), s, func(w io.Writer) error { return reports.WritePlan(w, in.Net, opt.Flow, opt.Cost, format) })
 }
 
 // optimum solves the loaded network, starting from its plan when that is
@@ -179,4 +172,27 @@ func optimum(in *flow.Loaded, s streams) (*dual.Optimum, error) {
 		return nil, errors.New("no optimum: a cycle of lanes without capacity lowers the cost without limit")
 	}
 	return opt, nil
+}
+
+// emit writes a command's output to the file named by output (atomically,
+// never over one of the inputs) or, when output is empty, to standard
+// output.
+func emit(output string, inputs []string, s streams, write func(io.Writer) error) error {
+	if output != "" {
+		return reports.WriteAtomic(output, inputs, write)
+	}
+	return write(s.out)
+}
+
+// load prepares the input options and reads the network and plan.
+func load(o *auditOptions) (*flow.Loaded, error) {
+	if err := o.prepare(); err != nil {
+		return nil, err
+	}
+	return flow.LoadFiles(o.files)
+}
+
+// inputs lists the input files of o plus extra ones, for emit.
+func (o *auditOptions) inputs(extra ...string) []string {
+	return append([]string{o.files.Network, o.files.Nodes, o.files.Plan}, extra...)
 }

@@ -47,10 +47,7 @@ are kept as in your plan), otherwise from scratch.`,
 }
 
 func runWhy(o *whyOptions, s streams) error {
-	if err := o.in.prepare(); err != nil {
-		return err
-	}
-	in, err := flow.LoadFiles(o.in.files)
+	in, err := load(&o.in)
 	if err != nil {
 		return err
 	}
