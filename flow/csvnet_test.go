@@ -142,7 +142,10 @@ func TestReadCSVNetworkLaneErrors(t *testing.T) {
 		{name: "after a quoted field", lanes: "from,to,cost\n\"A, Inc.\",B,\"x\"\n", want: []wantErr{{2, 13, "cost", ErrNotDecimal}}},
 		{name: "CRLF", lanes: "from,to,cost\r\nA,B,1\r\nA,B,y\r\n", want: []wantErr{{3, 5, "cost", ErrNotDecimal}}},
 		{name: "blank line counts as a line", lanes: "from,to,cost\n\nA,B,y\n", want: []wantErr{{3, 5, "cost", ErrNotDecimal}}},
-		{name: "decimal comma without the option", lanes: "from;to;cost\nA;B;1,5\n", want: []wantErr{{2, 5, "cost", ErrNotDecimal}}},
+		// Without the option a comma is read as a decimal comma only when no
+		// number uses a point (see TestDecimalCommaDetection); mixing is an
+		// error at the second style.
+		{name: "decimal comma after a decimal point", lanes: "from;to;cost\nA;B;1.5\nB;C;1,5\n", want: []wantErr{{3, 5, "cost", ErrAmbiguous}}},
 		{name: "decimal point with the comma option", lanes: "from;to;cost\nA;B;1.5\n", opt: TableOptions{DecimalComma: true},
 			want: []wantErr{{2, 5, "cost", ErrNotDecimal}}},
 		{name: "20 digits", lanes: "from,to,cost\nA,B,12345678901234567890\n", want: []wantErr{{2, 5, "cost", ErrOverflow}}},
