@@ -562,3 +562,65 @@ func isPlanTable(data []byte, opt TableOptions) bool {
 	_, ok := t.cols["flow"]
 	return ok
 }
+
+// WriteGridAudit writes an audit of plan x in the grid shape of n: each
+// cell holds the lane's quantity when it carries one, its reduced cost in
+// square brackets when it carries none ("[3.00]": what a unit on it would
+// cost beyond the potentials; negative means the plan is not optimal), and
+// nothing where there is no lane. A last column and a last row give the
+// origins' and destinations' potentials (reduced cost = rate + potential of
+// the origin - potential of the destination). reduced and potential may be
+// nil (an infeasible plan): the brackets and potentials are then left out.
+func WriteGridAudit(w io.Writer, n *Network, x, reduced, potential []int64) error {
+	cells, err := gridCells(n)
+	if err != nil {
+		return err
+	}
+	gs := n.Grid
+	cw := csv.NewWriter(w)
+	rec := []string{gs.Label}
+	for _, v := range gs.Dests {
+		rec = append(rec, n.Nodes[v])
+	}
+	rec = append(rec, "potential")
+	if err := cw.Write(rec); err != nil {
+		return err
+	}
+	for i, o := range gs.Origins {
+		rec = append(rec[:0], n.Nodes[o])
+		for j := range gs.Dests {
+			s := ""
+			if a := cells[i*len(gs.Dests)+j]; a >= 0 {
+				switch {
+				case x[a] != 0 || reduced == nil:
+					s = n.FormatQty(x[a])
+				default:
+					s = "[" + n.FormatRate(reduced[a]) + "]"
+				}
+			}
+			rec = append(rec, s)
+		}
+		p := ""
+		if potential != nil {
+			p = n.FormatRate(potential[o])
+		}
+		rec = append(rec, p)
+		if err := cw.Write(rec); err != nil {
+			return err
+		}
+	}
+	rec = append(rec[:0], "potential")
+	for _, v := range gs.Dests {
+		p := ""
+		if potential != nil {
+			p = n.FormatRate(potential[v])
+		}
+		rec = append(rec, p)
+	}
+	rec = append(rec, "")
+	if err := cw.Write(rec); err != nil {
+		return err
+	}
+	cw.Flush()
+	return cw.Error()
+}

@@ -31,7 +31,7 @@ const (
 // ParseFormat returns the format named s.
 func ParseFormat(s string) (Format, error) {
 	switch f := Format(strings.ToLower(s)); f {
-	case Text, JSON, CSV, Markdown, HTML, DOT:
+	case Text, JSON, CSV, Markdown, HTML, DOT, Grid:
 		return f, nil
 	case "text", "md":
 		if f == "md" {
@@ -39,7 +39,7 @@ func ParseFormat(s string) (Format, error) {
 		}
 		return Text, nil
 	}
-	return "", fmt.Errorf("reports: unknown format %q: want table, json, csv, markdown, html or dot", s)
+	return "", fmt.Errorf("reports: unknown format %q: want table, json, csv, markdown, html, dot or grid", s)
 }
 
 // Options controls the human formats (table and Markdown).
@@ -56,11 +56,20 @@ type Options struct {
 // flow.WriteDOT).
 const DOT Format = "dot"
 
+// Grid is the audit in the tableau grid of a network read from one (see
+// flow.WriteGridAudit).
+const Grid Format = "grid"
+
 // Write renders d in format f.
 func Write(w io.Writer, d *Document, f Format, opt Options) error {
 	switch f {
 	case DOT:
 		return flow.WriteDOT(w, d.net, d.audit.Flow, d.dotState)
+	case Grid:
+		if d.net.Grid == nil {
+			return fmt.Errorf("reports: the grid format needs a network read from a tableau grid")
+		}
+		return flow.WriteGridAudit(w, d.net, d.audit.Flow, d.audit.Reduced, d.audit.Potential)
 	case JSON:
 		return writeJSON(w, d)
 	case CSV:

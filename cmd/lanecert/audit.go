@@ -53,7 +53,7 @@ func addInputFlags(cmd *cobra.Command, o *auditOptions) {
 
 func addOutputFlags(cmd *cobra.Command, o *auditOptions) {
 	f := cmd.Flags()
-	f.StringVar(&o.format, "format", "table", "output format: table, json, csv, markdown, html (one self-contained page with a drawing and charts) or dot (the network for Graphviz)")
+	f.StringVar(&o.format, "format", "table", "output format: table, json, csv, markdown, html (one self-contained page with a drawing and charts) dot (the network for Graphviz) or grid (a tableau grid network's audit: quantities, [reduced costs], potentials)")
 	f.StringVarP(&o.output, "output", "o", "", "write the report to this file (atomically) instead of standard output")
 	f.IntVar(&o.rows, "rows", defaultRows, "lanes shown in the lane table, problem lanes first (0: all)")
 	f.BoolVar(&o.allLanes, "all-lanes", false, "show every lane in the lane table")

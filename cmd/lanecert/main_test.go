@@ -490,3 +490,21 @@ func TestGridRepairRoundTrip(t *testing.T) {
 		t.Fatalf("repaired grid: exit %d\n%s", code, out)
 	}
 }
+
+// TestGridAudit: the audit of Powerco's published optimal plan in its
+// tableau grid. The bracketed reduced costs are Winston's c - u - v values
+// for the non-basic cells with u = (0, 3, 3), v = (6, 6, 10, 2) (Powerco
+// example, edition from memory): 2, 7, 3, 2, 5, 3.
+func TestGridAudit(t *testing.T) {
+	code, out, _ := runCLI(t, "audit", "../../testdata/tableau/powerco.csv", "../../testdata/tableau/powerco_plan.csv", "--format", "grid")
+	want := []string{
+		"Powerco,City 1,City 2,City 3,City 4,potential",
+		"Plant 1,[2],10,25,[7],3",
+		"Plant 2,45,[3],5,[2],0",
+		"Plant 3,[5],10,[3],30,0",
+		"potential,9,9,13,5,",
+	}
+	if code != exitOptimal || strings.TrimSpace(out) != strings.Join(want, "\n") {
+		t.Fatalf("exit %d, got\n%s", code, out)
+	}
+}
