@@ -1,8 +1,9 @@
 package dual
 
 import (
-	"container/heap"
+	"cmp"
 	"fmt"
+	"slices"
 	"sort"
 
 	"lanecert/flow"
@@ -59,10 +60,16 @@ type Sensitivity struct {
 }
 
 // Ranges computes the sensitivity of plan y, which must be optimal with
-// valid potentials p (as Check returns them). Cost: O(|V|+|E|) when the lanes
-// in use form one piece; otherwise one Dijkstra search over the pieces per
-// source piece and per lane in use or at capacity between pieces, each
-// O(|E| log |V|) at worst and usually stopped early.
+// valid potentials p (as Check returns them). Cost: O(|E| log |E|) when the
+// lanes in use form one piece; otherwise searches over the k pieces, on the
+// graph with one edge per ordered pair of pieces (k' edges): per source
+// piece of unused lanes (with distances through the best-connected piece
+// bounding each search, when there are several sources), per lane at
+// capacity between pieces, and two per lane in use, started from the
+// pieces next to one side of its cut (side tables, O(|V|·k) memory per
+// piece at most, give the cheapest edges) and stopped once they cannot beat
+// the best route. Each is O((k + k') log k) at worst and usually stopped
+// early. Memory O(|V| + |E|) besides the side tables (at most 2^20 cells).
 func Ranges(n *flow.Network, y []int64, p []int64) (*Sensitivity, error) {
 	f, err := flow.CheckPlan(n, y)
 	if err != nil {
@@ -121,12 +128,35 @@ type ranger struct {
 	group []int32
 	reach [][]uint64
 
+	// The pieces as a graph: one edge per ordered pair of pieces with an
+	// edge between them (fwd by from-piece, rev by to-piece), and per edge
+	// the pieces of its ends.
+	fwdG, revG pieceGraph
+	pFrom, pTo []int32
+	arcEdge    []int32 // per arc: its edge between pieces, or -1
+	euler      []int32 // nodes in depth-first order (by tin)
+	inSlot     []int32 // per piece: its slot among the in-neighbours of the piece being split, or -1
+
 	// Search state, reused.
 	dist     []int64
 	settled  []bool
 	pred     []int32
 	touched  []int32
+	heap     pieceHeap
+	want     []int32 // search number for which a piece is a target
+	stamp    int32
 	searches int
+}
+
+// pieceGraph is the graph of pieces with parallel edges merged: per piece u
+// the edges start[u]..start[u+1]-1 to pieces to[c], each the least (w, edge
+// index) of the edges it merges (rep); of maps each edge to its merged edge.
+type pieceGraph struct {
+	start []int32
+	to    []int32
+	w     []int64
+	rep   []int32
+	of    []int32
 }
 
 const unreached = int64(-1) << 63
@@ -237,6 +267,19 @@ func (r *ranger) buildEdges() error {
 		r.redges[rpos[g.comp[e.to]]] = i
 		rpos[g.comp[e.to]]++
 	}
+	r.pFrom, r.pTo = make([]int32, ne), make([]int32, ne)
+	for i := range r.from {
+		r.pFrom[i], r.pTo[i] = g.comp[r.from[i]], g.comp[r.to[i]]
+	}
+	r.arcEdge = make([]int32, g.numArcs())
+	for a := range r.arcEdge {
+		r.arcEdge[a] = -1
+	}
+	for i, a := range r.arcOf {
+		r.arcEdge[a] = int32(i) // arcs between pieces are at a bound: one edge each
+	}
+	r.fwdG = r.contract(r.start, nil, r.pTo)
+	r.revG = r.contract(r.rstart, r.redges, r.pFrom)
 	r.subtrees()
 	r.cover()
 	r.reachability()
@@ -244,11 +287,48 @@ func (r *ranger) buildEdges() error {
 	r.dist = make([]int64, nv)
 	r.settled = make([]bool, nv)
 	r.pred = make([]int32, nv)
+	r.want = make([]int32, nv)
+	r.inSlot = make([]int32, nv)
 	for i := range r.dist {
 		r.dist[i] = unreached
 		r.pred[i] = -1
+		r.inSlot[i] = -1
 	}
 	return nil
+}
+
+// contract merges the edges between each ordered pair of pieces: the edges
+// of piece u are idx[start[u]..start[u+1]-1] (idx nil: the indices
+// themselves), each leading to piece nb[i]. O(|E| + k).
+func (r *ranger) contract(start, idx, nb []int32) pieceGraph {
+	k := r.k
+	pg := pieceGraph{start: make([]int32, k+1), of: make([]int32, len(r.w))}
+	slot := make([]int32, k)
+	owner := make([]int32, k)
+	for i := range owner {
+		owner[i] = -1
+	}
+	for u := 0; u < k; u++ {
+		pg.start[u] = int32(len(pg.to))
+		for p := start[u]; p < start[u+1]; p++ {
+			i := p
+			if idx != nil {
+				i = idx[p]
+			}
+			v := nb[i]
+			if owner[v] != int32(u) {
+				owner[v], slot[v] = int32(u), int32(len(pg.to))
+				pg.to = append(pg.to, v)
+				pg.w = append(pg.w, r.w[i])
+				pg.rep = append(pg.rep, i)
+			} else if c := slot[v]; r.w[i] < pg.w[c] || (r.w[i] == pg.w[c] && i < pg.rep[c]) {
+				pg.w[c], pg.rep[c] = r.w[i], i
+			}
+			pg.of[i] = slot[v]
+		}
+	}
+	pg.start[k] = int32(len(pg.to))
+	return pg
 }
 
 // subtrees numbers the forest in depth-first order: v's subtree is the
@@ -275,6 +355,7 @@ func (r *ranger) subtrees() {
 		}
 	}
 	r.tin, r.tout = make([]int32, nv), make([]int32, nv)
+	r.euler = make([]int32, nv)
 	clock := int32(0)
 	type frame struct{ v, next int32 }
 	var stack []frame
@@ -284,6 +365,7 @@ func (r *ranger) subtrees() {
 		}
 		stack = append(stack[:0], frame{int32(root), cstart[root]})
 		r.tin[root] = clock
+		r.euler[clock] = int32(root)
 		clock++
 		for len(stack) > 0 {
 			top := &stack[len(stack)-1]
@@ -291,6 +373,7 @@ func (r *ranger) subtrees() {
 				c := kids[top.next]
 				top.next++
 				r.tin[c] = clock
+				r.euler[clock] = c
 				clock++
 				stack = append(stack, frame{c, cstart[c]})
 				continue
@@ -314,17 +397,24 @@ type innerEdge struct {
 func (r *ranger) cover() {
 	g := r.g
 	nv := g.numNodes()
-	order := make([]int32, len(r.inner))
-	for i := range order {
-		order[i] = int32(i)
+	type key struct {
+		w int64
+		i int32
 	}
-	sort.Slice(order, func(i, j int) bool {
-		a, b := r.inner[order[i]], r.inner[order[j]]
+	keys := make([]key, len(r.inner))
+	for i, e := range r.inner {
+		keys[i] = key{e.w, int32(i)}
+	}
+	slices.SortFunc(keys, func(a, b key) int {
 		if a.w != b.w {
-			return a.w < b.w
+			return cmp.Compare(a.w, b.w)
 		}
-		return order[i] < order[j]
+		return cmp.Compare(a.i, b.i)
 	})
+	order := make([]int32, len(keys))
+	for j, k := range keys {
+		order[j] = k.i
+	}
 	parentNode := func(v int32) int32 {
 		if e := g.parentArc[v]; e >= 0 {
 			return g.other(int(e), v)
@@ -490,97 +580,142 @@ func (r *ranger) pieceOf(v int32, sp split) int32 {
 // 0), skipping arc exclude (-1: none), until every target piece is settled.
 // Reverse searches follow edges backwards. It returns the distances (use
 // dist[piece], unreached when not reached) valid until the next search.
+// Without a split it follows the merged edges between pieces (O(k + merged
+// edges) per search at worst, with a binary heap); with one, every edge.
 func (r *ranger) search(sources []int32, targets []int32, sp split, exclude int32, reverse bool) error {
 	r.searches++
 	for _, v := range r.touched {
 		r.dist[v], r.settled[v], r.pred[v] = unreached, false, -1
 	}
 	r.touched = r.touched[:0]
-	h := &pieceHeap{}
+	r.heap = r.heap[:0]
+	r.stamp++
 	for _, s := range sources {
 		if r.dist[s] != 0 {
 			r.dist[s] = 0
 			r.touched = append(r.touched, s)
-			heap.Push(h, pieceItem{0, s})
+			r.heap.push(pieceItem{0, s})
 		}
 	}
 	left := 0
 	for _, t := range targets {
-		if !r.settled[t] {
-			left++
-		}
-	}
-	want := make(map[int32]bool, len(targets))
-	for _, t := range targets {
-		if sp.child >= 0 || len(sources) != 1 {
-			want[t] = true
+		if r.want[t] == r.stamp {
 			continue
 		}
-		a, b := sources[0], t
-		if reverse {
-			a, b = b, a
+		if sp.child < 0 && len(sources) == 1 {
+			a, b := sources[0], t
+			if reverse {
+				a, b = b, a
+			}
+			if !r.reaches(a, b) {
+				continue
+			}
 		}
-		if r.reaches(a, b) {
-			want[t] = true
+		r.want[t] = r.stamp
+		left++
+	}
+	// The piece whose own edges must be followed one by one: the one the
+	// excluded arc leaves (in the search's direction).
+	exPiece := int32(-1)
+	if exclude >= 0 && int(exclude) < len(r.arcEdge) {
+		if ex := r.arcEdge[exclude]; ex >= 0 {
+			exPiece = r.pFrom[ex]
+			if reverse {
+				exPiece = r.pTo[ex]
+			}
 		}
 	}
-	left = len(want)
-	for h.Len() > 0 && left > 0 {
-		it := heap.Pop(h).(pieceItem)
+	pg := &r.fwdG
+	if reverse {
+		pg = &r.revG
+	}
+	for len(r.heap) > 0 && left > 0 {
+		it := r.heap.pop()
 		u := it.piece
 		if r.settled[u] || it.d != r.dist[u] {
 			continue
 		}
 		r.settled[u] = true
-		if want[u] {
+		if r.want[u] == r.stamp {
 			left--
 		}
-		real := u
-		if int(u) == r.k {
-			real = sp.piece
-		}
-		var list []int32
-		if reverse {
-			list = r.redges[r.rstart[real]:r.rstart[real+1]]
-		} else {
-			list = nil
-		}
-		lo, hi := r.start[real], r.start[real+1]
-		n := int(hi - lo)
-		if reverse {
-			n = len(list)
-		}
-		for j := 0; j < n; j++ {
-			i := lo + int32(j)
-			if reverse {
-				i = list[j]
+		if sp.child >= 0 || u == exPiece {
+			if err := r.relaxEach(it, sp, exclude, reverse); err != nil {
+				return err
 			}
-			if r.arcOf[i] == exclude {
+			continue
+		}
+		for c := pg.start[u]; c < pg.start[u+1]; c++ {
+			v := pg.to[c]
+			if r.settled[v] {
 				continue
 			}
-			a, b := r.from[i], r.to[i]
-			if reverse {
-				a, b = b, a
-			}
-			if r.pieceOf(a, sp) != u {
-				continue
-			}
-			v := r.pieceOf(b, sp)
-			if v == u || r.settled[v] {
-				continue
-			}
-			nd, err := flow.AddChecked(it.d, r.w[i])
+			nd, err := flow.AddChecked(it.d, pg.w[c])
 			if err != nil {
 				return fmt.Errorf("dual: route cost %w", err)
 			}
-			if r.dist[v] == unreached || nd < r.dist[v] || (nd == r.dist[v] && i < r.pred[v]) {
-				if r.dist[v] == unreached {
-					r.touched = append(r.touched, v)
-				}
-				r.dist[v], r.pred[v] = nd, i
-				heap.Push(h, pieceItem{nd, v})
-			}
+			r.relax(v, nd, pg.rep[c])
 		}
+	}
+	return nil
+}
+
+// relax offers distance nd to piece v by edge i; ties go to the lower edge
+// index.
+func (r *ranger) relax(v int32, nd int64, i int32) {
+	switch {
+	case r.dist[v] == unreached:
+		r.touched = append(r.touched, v)
+	case nd < r.dist[v]:
+	case nd == r.dist[v] && i < r.pred[v]:
+		r.pred[v] = i
+		return
+	default:
+		return
+	}
+	r.dist[v], r.pred[v] = nd, i
+	r.heap.push(pieceItem{nd, v})
+}
+
+// relaxEach relaxes the edges leaving (reverse: entering) the settled piece
+// it one by one, sorting their ends into the sides of a split piece.
+func (r *ranger) relaxEach(it pieceItem, sp split, exclude int32, reverse bool) error {
+	u := it.piece
+	real := u
+	if int(u) == r.k {
+		real = sp.piece
+	}
+	var list []int32
+	lo, hi := r.start[real], r.start[real+1]
+	n := int(hi - lo)
+	if reverse {
+		list = r.redges[r.rstart[real]:r.rstart[real+1]]
+		n = len(list)
+	}
+	for j := 0; j < n; j++ {
+		i := lo + int32(j)
+		if reverse {
+			i = list[j]
+		}
+		if r.arcOf[i] == exclude {
+			continue
+		}
+		a, b := r.from[i], r.to[i]
+		if reverse {
+			a, b = b, a
+		}
+		if r.pieceOf(a, sp) != u {
+			continue
+		}
+		v := r.pieceOf(b, sp)
+		if v == u || r.settled[v] {
+			continue
+		}
+		nd, err := flow.AddChecked(it.d, r.w[i])
+		if err != nil {
+			return fmt.Errorf("dual: route cost %w", err)
+		}
+		r.relax(v, nd, i)
 	}
 	return nil
 }
@@ -590,22 +725,49 @@ type pieceItem struct {
 	piece int32
 }
 
+// pieceHeap is a binary min-heap of pieces by (distance, piece).
 type pieceHeap []pieceItem
 
-func (h pieceHeap) Len() int { return len(h) }
-func (h pieceHeap) Less(i, j int) bool {
-	if h[i].d != h[j].d {
-		return h[i].d < h[j].d
-	}
-	return h[i].piece < h[j].piece
+func (a pieceItem) less(b pieceItem) bool {
+	return a.d < b.d || (a.d == b.d && a.piece < b.piece)
 }
-func (h pieceHeap) Swap(i, j int) { h[i], h[j] = h[j], h[i] }
-func (h *pieceHeap) Push(x any)   { *h = append(*h, x.(pieceItem)) }
-func (h *pieceHeap) Pop() any {
-	old := *h
-	it := old[len(old)-1]
-	*h = old[:len(old)-1]
-	return it
+
+func (h *pieceHeap) push(it pieceItem) {
+	q := append(*h, it)
+	i := len(q) - 1
+	for i > 0 {
+		p := (i - 1) / 2
+		if !q[i].less(q[p]) {
+			break
+		}
+		q[i], q[p] = q[p], q[i]
+		i = p
+	}
+	*h = q
+}
+
+func (h *pieceHeap) pop() pieceItem {
+	q := *h
+	top := q[0]
+	last := len(q) - 1
+	q[0] = q[last]
+	q = q[:last]
+	for i := 0; ; {
+		c := 2*i + 1
+		if c >= last {
+			break
+		}
+		if c+1 < last && q[c+1].less(q[c]) {
+			c++
+		}
+		if !q[c].less(q[i]) {
+			break
+		}
+		q[i], q[c] = q[c], q[i]
+		i = c
+	}
+	*h = q
+	return top
 }
 
 // firstLane returns a lane on the route found to piece v (the last inter-
@@ -636,6 +798,7 @@ func (r *ranger) lanes(s *Sensitivity) error {
 		}
 		bySource[src] = append(bySource[src], q)
 	}
+	var forest []int32 // lanes in use that are forest arcs
 	for e := 0; e < g.m; e++ {
 		lo, hi, x, rate := g.arc(e)
 		lr := &s.Lanes[e]
@@ -654,9 +817,7 @@ func (r *ranger) lanes(s *Sensitivity) error {
 			// A cycle of lanes in use with zero cost: any change breaks it.
 			lr.Lower, lr.Upper, lr.HasLower, lr.HasUpper = rate, rate, true, true
 		case free:
-			if err := r.splitRange(e, lr); err != nil {
-				return err
-			}
+			forest = append(forest, int32(e))
 		case x == lo:
 			if g.comp[h] == g.comp[t] {
 				lr.Lower, lr.HasLower = diff, true
@@ -673,17 +834,36 @@ func (r *ranger) lanes(s *Sensitivity) error {
 			}
 		}
 	}
+	if err := r.forestRanges(forest, s); err != nil {
+		return err
+	}
+	var hub *hubDist
+	if len(order) >= minHubSources {
+		var err error
+		if hub, err = r.newHub(); err != nil {
+			return err
+		}
+	}
+	var targets []int32
 	for _, src := range order {
 		qs := bySource[src]
-		var targets []int32
+		targets = targets[:0]
+		distOnly := true
 		for _, q := range qs {
 			if q.kind == 1 {
 				targets = append(targets, g.comp[g.head(q.lane)])
 			} else {
 				targets = append(targets, g.comp[g.tail(q.lane)])
 			}
+			distOnly = distOnly && q.kind == 0
 		}
-		if err := r.search([]int32{src}, targets, split{child: -1}, -1, false); err != nil {
+		var err error
+		if hub != nil && distOnly {
+			err = r.hubSearch(hub, src, targets)
+		} else {
+			err = r.search([]int32{src}, targets, split{child: -1}, -1, false)
+		}
+		if err != nil {
 			return err
 		}
 		var again []query
@@ -731,6 +911,197 @@ func (r *ranger) lanes(s *Sensitivity) error {
 	return nil
 }
 
+// minHubSources is the number of source pieces from which searching via a
+// hub (two extra full searches) pays.
+const minHubSources = 8
+
+// hubDist holds the distances to and from a hub: the piece with the most
+// neighbouring pieces. Every route through the hub from a to b costs at
+// least to[a] + from[b], and that route exists, so the distance from a to
+// b is the lesser of that and the distance with the hub left out.
+type hubDist struct {
+	piece    int32
+	to, from []int64
+}
+
+func (r *ranger) newHub() (*hubDist, error) {
+	h := &hubDist{piece: -1}
+	most := int32(-1)
+	for c := int32(0); int(c) < r.k; c++ {
+		if d := r.fwdG.start[c+1] - r.fwdG.start[c] + r.revG.start[c+1] - r.revG.start[c]; d > most {
+			h.piece, most = c, d
+		}
+	}
+	var err error
+	if h.to, err = r.allDist(h.piece, true, -1); err != nil {
+		return nil, err
+	}
+	if h.from, err = r.allDist(h.piece, false, -1); err != nil {
+		return nil, err
+	}
+	return h, nil
+}
+
+// allDist returns the distances from piece src to every piece (reverse: to
+// src from every piece) on routes avoiding piece skip (-1: none), unreached
+// where none. O((k + merged edges) log k).
+func (r *ranger) allDist(src int32, reverse bool, skip int32) ([]int64, error) {
+	r.searches++
+	r.resetSearch()
+	pg := &r.fwdG
+	if reverse {
+		pg = &r.revG
+	}
+	r.dist[src] = 0
+	r.touched = append(r.touched, src)
+	r.heap.push(pieceItem{0, src})
+	for len(r.heap) > 0 {
+		it := r.heap.pop()
+		u := it.piece
+		if r.settled[u] || it.d != r.dist[u] {
+			continue
+		}
+		r.settled[u] = true
+		for c := pg.start[u]; c < pg.start[u+1]; c++ {
+			if pg.to[c] == skip {
+				continue
+			}
+			if err := r.offer(pg.to[c], it.d, pg.w[c]); err != nil {
+				return nil, err
+			}
+		}
+	}
+	return append([]int64(nil), r.dist[:r.k]...), nil
+}
+
+// resetSearch clears the state of the last search.
+func (r *ranger) resetSearch() {
+	for _, v := range r.touched {
+		r.dist[v], r.settled[v], r.pred[v] = unreached, false, -1
+	}
+	r.touched = r.touched[:0]
+	r.heap = r.heap[:0]
+}
+
+// offer relaxes piece v to distance d+w, without a predecessor.
+func (r *ranger) offer(v int32, d, w int64) error {
+	return r.offerFrom(v, d, w, -1)
+}
+
+// offerFrom relaxes piece v to distance d+w, recording tag in pred[v] when
+// it improves.
+func (r *ranger) offerFrom(v int32, d, w int64, tag int32) error {
+	if r.settled[v] {
+		return nil
+	}
+	nd, err := flow.AddChecked(d, w)
+	if err != nil {
+		return fmt.Errorf("dual: route cost %w", err)
+	}
+	if r.dist[v] == unreached {
+		r.touched = append(r.touched, v)
+	} else if nd >= r.dist[v] {
+		return nil
+	}
+	r.dist[v], r.pred[v] = nd, tag
+	r.heap.push(pieceItem{nd, v})
+	return nil
+}
+
+// hubSearch sets r.dist[t] for each target piece t to the distance from
+// piece src (no predecessors): the lesser of the route through the hub and
+// a search from src with the hub left out, stopped once every target not
+// yet settled has a route through the hub no dearer than the search's
+// frontier.
+func (r *ranger) hubSearch(h *hubDist, src int32, targets []int32) error {
+	r.searches++
+	r.resetSearch()
+	r.stamp++
+	// via[t]: the cost through the hub (unreached: none), in r.pred's place
+	// kept in a local list sorted by decreasing cost, unreachable first.
+	type goal struct {
+		piece int32
+		via   int64
+	}
+	var goals []goal
+	for _, t := range targets {
+		if r.want[t] == r.stamp || !r.reaches(src, t) {
+			continue
+		}
+		r.want[t] = r.stamp
+		via := unreached
+		if src == h.piece {
+			via = h.from[t]
+		} else if t == h.piece {
+			via = h.to[src]
+		} else if h.to[src] != unreached && h.from[t] != unreached {
+			var err error
+			if via, err = flow.AddChecked(h.to[src], h.from[t]); err != nil {
+				return fmt.Errorf("dual: route cost %w", err)
+			}
+		}
+		goals = append(goals, goal{t, via})
+	}
+	sort.Slice(goals, func(i, j int) bool {
+		a, b := goals[i], goals[j]
+		if (a.via == unreached) != (b.via == unreached) {
+			return a.via == unreached
+		}
+		return a.via > b.via || (a.via == b.via && a.piece < b.piece)
+	})
+	if src != h.piece {
+		r.dist[src] = 0
+		r.touched = append(r.touched, src)
+		r.heap.push(pieceItem{0, src})
+	}
+	next := 0 // first goal not settled, in goals' order
+	for len(r.heap) > 0 {
+		for next < len(goals) && r.settled[goals[next].piece] {
+			next++
+		}
+		if next == len(goals) {
+			break
+		}
+		it := r.heap.pop()
+		u := it.piece
+		if r.settled[u] || it.d != r.dist[u] {
+			continue
+		}
+		if v := goals[next].via; v != unreached && it.d >= v {
+			break // every goal left is reached as cheaply through the hub
+		}
+		r.settled[u] = true
+		for c := r.fwdG.start[u]; c < r.fwdG.start[u+1]; c++ {
+			if v := r.fwdG.to[c]; v != h.piece {
+				if err := r.offer(v, it.d, r.fwdG.w[c]); err != nil {
+					return err
+				}
+			}
+		}
+	}
+	for _, gl := range goals {
+		t := gl.piece
+		if gl.via == unreached {
+			if !r.settled[t] {
+				r.setDist(t, unreached)
+			}
+			continue
+		}
+		if !r.settled[t] || gl.via < r.dist[t] {
+			r.setDist(t, gl.via)
+		}
+	}
+	return nil
+}
+
+// setDist sets a piece's distance after a search.
+func (r *ranger) setDist(v int32, d int64) {
+	if r.dist[v] == unreached {
+		r.touched = append(r.touched, v)
+	}
+	r.dist[v], r.pred[v] = d, -1
+}
+
 // routeUses reports whether the route found to piece v uses arc e.
 func (r *ranger) routeUses(v int32, e int32) bool {
 	for steps := 0; v >= 0 && r.pred[v] >= 0 && steps <= r.k+1; steps++ {
@@ -743,11 +1114,183 @@ func (r *ranger) routeUses(v int32, e int32) bool {
 	return false
 }
 
-// splitRange computes the range of a forest lane: removing it cuts its piece
-// in two sides; the limits are the cheapest routes between the two sides:
-// an inner edge across the cut (from cover) or a route through other pieces
-// (a search).
-func (r *ranger) splitRange(e int, lr *LaneRange) error {
+// maxSideCells bounds nodes times neighbouring pieces of a piece for which
+// side tables are built (three int64 and three int32 per cell); larger
+// pieces search edge by edge.
+const maxSideCells = 1 << 20
+
+// forestRanges fills in the ranges of the lanes in use that are forest
+// arcs, piece by piece. Within a piece P with s nodes and n neighbouring
+// pieces, side tables (O(s·n) time and memory) give for any cut of P's tree
+// the cheapest edge from either side to each neighbour and back; the
+// cheapest route from one side to the other through other pieces is then
+// one search over the other pieces (P removed: a route that re-enters P's
+// far side ends there, one that re-enters the near side is no shorter than
+// its part from there), started from the neighbours at their edge costs and
+// stopped once it can no longer beat the best route or the cheapest edge
+// inside P across the cut.
+func (r *ranger) forestRanges(forest []int32, s *Sensitivity) error {
+	g := r.g
+	sort.SliceStable(forest, func(i, j int) bool {
+		return g.comp[g.tail(int(forest[i]))] < g.comp[g.tail(int(forest[j]))]
+	})
+	var out, in sideTable
+	for lo := 0; lo < len(forest); {
+		p := g.comp[g.tail(int(forest[lo]))]
+		hi := lo + 1
+		for hi < len(forest) && g.comp[g.tail(int(forest[hi]))] == p {
+			hi++
+		}
+		lanes := forest[lo:hi]
+		lo = hi
+		root := r.euler[r.tin[g.tail(int(lanes[0]))]]
+		for g.parentArc[root] >= 0 {
+			root = g.other(int(g.parentArc[root]), root)
+		}
+		base, size := r.tin[root], int(r.tout[root]-r.tin[root])
+		nOut := int(r.fwdG.start[p+1] - r.fwdG.start[p])
+		nIn := int(r.revG.start[p+1] - r.revG.start[p])
+		for c := r.revG.start[p]; c < r.revG.start[p+1]; c++ {
+			r.inSlot[r.revG.to[c]] = c - r.revG.start[p]
+		}
+		if size*(nOut+nIn) > maxSideCells {
+			// Too many neighbours for tables: search from the smaller
+			// side of each cut instead.
+			bp := r.newBigPiece(p, base, size)
+			via, err := r.newSplitHub(p, base, size)
+			if err != nil {
+				return err
+			}
+			for _, e := range lanes {
+				if err := r.splitSides(int(e), &s.Lanes[e], p, base, nil, nil, bp, via); err != nil {
+					return err
+				}
+			}
+		} else {
+			r.sideTable(&out, p, base, size, false)
+			r.sideTable(&in, p, base, size, true)
+			for _, e := range lanes {
+				if err := r.splitSides(int(e), &s.Lanes[e], p, base, &out, &in, nil, nil); err != nil {
+					return err
+				}
+			}
+		}
+		for c := r.revG.start[p]; c < r.revG.start[p+1]; c++ {
+			r.inSlot[r.revG.to[c]] = -1
+		}
+	}
+	return nil
+}
+
+// sideTable holds, for one piece of s nodes in depth-first order and n
+// neighbouring pieces, the cheapest edge (least reduced cost, then least
+// edge index; index -1: none) between node sets of the piece and each
+// neighbour: row p of sub covers the subtree of the node at position p, row
+// p of pre the positions before p, row p of suf the positions from p on.
+// Rows have n cells; pre and suf have s+1 rows.
+type sideTable struct {
+	n                int
+	subW, preW, sufW []int64
+	subI, preI, sufI []int32
+	// rowW, rowI hold the last row asked for.
+	rowW []int64
+	rowI []int32
+}
+
+func grow[T any](b []T, n int) []T {
+	if cap(b) < n {
+		return make([]T, n)
+	}
+	return b[:n]
+}
+
+// better reports whether (w, i) beats (bw, bi); bi < 0 is no edge.
+func better(w int64, i int32, bw int64, bi int32) bool {
+	return i >= 0 && (bi < 0 || w < bw || (w == bw && i < bi))
+}
+
+// minRow sets dst to the cellwise best of a and b.
+func minRow(dw []int64, di []int32, aw []int64, ai []int32, bw []int64, bi []int32) {
+	for j := range dw {
+		if better(bw[j], bi[j], aw[j], ai[j]) {
+			dw[j], di[j] = bw[j], bi[j]
+		} else {
+			dw[j], di[j] = aw[j], ai[j]
+		}
+	}
+}
+
+// sideTable fills t for piece p (nodes euler[base:base+size]): edges
+// leaving p to each neighbour, or with in, edges entering p from each.
+// O(size·n + edges of p).
+func (r *ranger) sideTable(t *sideTable, p, base int32, size int, in bool) {
+	g := r.g
+	pg, list := &r.fwdG, []int32(nil)
+	lo, hi := r.start[p], r.start[p+1]
+	if in {
+		pg, list = &r.revG, r.redges[r.rstart[p]:r.rstart[p+1]]
+		lo, hi = 0, int32(len(list))
+	}
+	n := int(pg.start[p+1] - pg.start[p])
+	t.n = n
+	t.subW, t.subI = grow(t.subW, size*n), grow(t.subI, size*n)
+	t.preW, t.preI = grow(t.preW, (size+1)*n), grow(t.preI, (size+1)*n)
+	t.sufW, t.sufI = grow(t.sufW, (size+1)*n), grow(t.sufI, (size+1)*n)
+	t.rowW, t.rowI = grow(t.rowW, n), grow(t.rowI, n)
+	for j := range t.subI {
+		t.subI[j] = -1
+	}
+	for j := 0; j < n; j++ {
+		t.preI[j], t.sufI[size*n+j] = -1, -1
+	}
+	for k := lo; k < hi; k++ {
+		i, v := k, int32(0)
+		if in {
+			i = list[k]
+			v = r.to[i]
+		} else {
+			v = r.from[i]
+		}
+		c := int(r.tin[v]-base)*n + int(pg.of[i]-pg.start[p])
+		if better(r.w[i], i, t.subW[c], t.subI[c]) {
+			t.subW[c], t.subI[c] = r.w[i], i
+		}
+	}
+	for q := 0; q < size; q++ {
+		a, b := q*n, (q+1)*n
+		minRow(t.preW[b:b+n], t.preI[b:b+n], t.preW[a:a+n], t.preI[a:a+n], t.subW[a:a+n], t.subI[a:a+n])
+	}
+	for q := size - 1; q >= 0; q-- {
+		a, b := q*n, (q+1)*n
+		minRow(t.sufW[a:a+n], t.sufI[a:a+n], t.sufW[b:b+n], t.sufI[b:b+n], t.subW[a:a+n], t.subI[a:a+n])
+	}
+	for q := size - 1; q >= 1; q-- {
+		v := r.euler[int(base)+q]
+		u := g.other(int(g.parentArc[v]), v)
+		a, b := q*n, int(r.tin[u]-base)*n
+		minRow(t.subW[b:b+n], t.subI[b:b+n], t.subW[b:b+n], t.subI[b:b+n], t.subW[a:a+n], t.subI[a:a+n])
+	}
+}
+
+// row sets t.rowW, t.rowI to the cheapest edges of the subtree of the node
+// at position l (its subtree ends before position end), or of the rest of
+// the piece.
+func (t *sideTable) row(l, end int, subtree bool) {
+	n := t.n
+	if subtree {
+		copy(t.rowW, t.subW[l*n:(l+1)*n])
+		copy(t.rowI, t.subI[l*n:(l+1)*n])
+		return
+	}
+	minRow(t.rowW, t.rowI, t.preW[l*n:(l+1)*n], t.preI[l*n:(l+1)*n], t.sufW[end*n:(end+1)*n], t.sufI[end*n:(end+1)*n])
+}
+
+// splitSides computes the range of forest lane e of piece p: removing it
+// cuts p in two sides; the limits are the cheapest routes between the two
+// sides: an inner edge across the cut (from cover) or a route through
+// other pieces, found with the side tables of p (out, in) or, without them
+// (out nil), with p's edges arranged by bp and the hub via.
+func (r *ranger) splitSides(e int, lr *LaneRange, p, base int32, out, in *sideTable, bp *bigPiece, via *splitHub) error {
 	g := r.g
 	_, _, _, rate := g.arc(e)
 	t, h := g.tail(e), g.head(e)
@@ -755,38 +1298,67 @@ func (r *ranger) splitRange(e int, lr *LaneRange) error {
 	if int(g.parentArc[t]) == e {
 		child = t
 	}
-	// Inner edges from the head's side to the tail's, and back.
 	down, downBy := r.leave[child], r.leaveBy[child]
 	up, upBy := r.enter[child], r.enterBy[child]
 	if child == t {
 		down, downBy, up, upBy = up, upBy, down, downBy
 	}
-	sp := split{piece: g.comp[t], child: child}
-	st, sh := r.pieceOf(t, sp), r.pieceOf(h, sp)
-	best := func(inner int64, innerBy int32, from, to int32) (int64, flow.LaneID, bool, error) {
+	l, end := int(r.tin[child]-base), int(r.tout[child]-base)
+	best := func(inner int64, innerBy int32, fromSub bool) (int64, flow.LaneID, bool, error) {
 		d, by := inner, flow.LaneID(-1)
 		if innerBy >= 0 && int(innerBy) < g.m {
 			by = flow.LaneID(innerBy)
 		}
-		if r.start[sp.piece+1] > r.start[sp.piece] || r.rstart[sp.piece+1] > r.rstart[sp.piece] {
-			if err := r.search([]int32{from}, []int32{to}, sp, int32(e), false); err != nil {
-				return 0, -1, false, err
+		if inner == 0 {
+			return d, by, true, nil // no route is cheaper
+		}
+		target := int32(r.k) // the subtree's virtual piece number
+		if fromSub {
+			target = p
+		}
+		var x int64
+		var xi int32
+		var err error
+		if out != nil {
+			out.row(l, end, fromSub)
+			in.row(l, end, !fromSub)
+			x, xi, err = r.sideSearch(p, out, in, target, inner)
+		} else {
+			// The cheapest route through the hub bounds the search, which
+			// then leaves the hub out.
+			u, ui, uerr := via.route(l, end, fromSub)
+			if uerr != nil {
+				return 0, -1, false, uerr
 			}
-			if x := r.dist[to]; x != unreached && (d == unreached || x < d) {
-				d, by = x, r.firstLane(to)
-				lr.ByRoute = true
+			bound := inner
+			if u != unreached && (bound == unreached || u < bound) {
+				bound = u
 			}
+			x, xi, err = r.smallSide(bp, via.piece, l, end, fromSub, bound)
+			if err == nil && u != unreached && (x == unreached || x >= u) {
+				x, xi = u, ui // nothing cheaper without the hub
+			}
+		}
+		if err != nil {
+			return 0, -1, false, err
+		}
+		if x != unreached && (d == unreached || x < d) {
+			d, by = x, -1
+			if int(r.arcOf[xi]) < g.m {
+				by = flow.LaneID(r.arcOf[xi])
+			}
+			lr.ByRoute = true
 		}
 		return d, by, d != unreached, nil
 	}
-	d, by, ok, err := best(down, downBy, sh, st)
+	d, by, ok, err := best(down, downBy, child == h)
 	if err != nil {
 		return err
 	}
 	if ok {
 		lr.Lower, lr.HasLower, lr.LowerBy = rate-d, true, by
 	}
-	d, by, ok, err = best(up, upBy, st, sh)
+	d, by, ok, err = best(up, upBy, child == t)
 	if err != nil {
 		return err
 	}
@@ -794,6 +1366,382 @@ func (r *ranger) splitRange(e int, lr *LaneRange) error {
 		lr.Upper, lr.HasUpper, lr.UpperBy = rate+d, true, by
 	}
 	return nil
+}
+
+// sideSearch finds the cheapest route from one side of split piece p to
+// the other through other pieces: out.row holds the cheapest edges from the
+// near side to p's out-neighbours, in.row those from p's in-neighbours into
+// the far side (numbered target in the edge-by-edge search, whose tie rule
+// it follows: of the routes of least cost, the one entering the far side by
+// the least edge index among those found before the far side would be
+// settled, as search would). Routes costing bound or more are not looked for (unreached: no
+// bound). It returns the cost (unreached: none) and the entering edge.
+func (r *ranger) sideSearch(p int32, out, in *sideTable, target int32, bound int64) (int64, int32, error) {
+	left := 0
+	for _, i := range in.rowI {
+		if i >= 0 {
+			left++
+		}
+	}
+	if left == 0 {
+		return unreached, -1, nil
+	}
+	r.searches++
+	for _, v := range r.touched {
+		r.dist[v], r.settled[v], r.pred[v] = unreached, false, -1
+	}
+	r.touched = r.touched[:0]
+	r.heap = r.heap[:0]
+	for j, i := range out.rowI {
+		if i >= 0 {
+			x := r.fwdG.to[int(r.fwdG.start[p])+j]
+			r.dist[x] = out.rowW[j]
+			r.touched = append(r.touched, x)
+			r.heap.push(pieceItem{out.rowW[j], x})
+		}
+	}
+	// The far side is a piece of its own here (number target), reached
+	// only by the in-neighbours' edges, so ties resolve as in search.
+	for len(r.heap) > 0 {
+		it := r.heap.pop()
+		u := it.piece
+		if r.settled[u] || it.d != r.dist[u] {
+			continue
+		}
+		if u == target || (bound != unreached && it.d >= bound) {
+			break
+		}
+		r.settled[u] = true
+		if j := r.inSlot[u]; j >= 0 && in.rowI[j] >= 0 {
+			left--
+			val, err := flow.AddChecked(it.d, in.rowW[j])
+			if err != nil {
+				return 0, -1, fmt.Errorf("dual: route cost %w", err)
+			}
+			r.relax(target, val, in.rowI[j])
+		}
+		if left == 0 {
+			break
+		}
+		for c := r.fwdG.start[u]; c < r.fwdG.start[u+1]; c++ {
+			v := r.fwdG.to[c]
+			if v == p || r.settled[v] {
+				continue
+			}
+			nd, err := flow.AddChecked(it.d, r.fwdG.w[c])
+			if err != nil {
+				return 0, -1, fmt.Errorf("dual: route cost %w", err)
+			}
+			if r.dist[v] == unreached {
+				r.touched = append(r.touched, v)
+			} else if nd >= r.dist[v] {
+				continue
+			}
+			r.dist[v] = nd
+			r.heap.push(pieceItem{nd, v})
+		}
+	}
+	return r.dist[target], r.pred[target], nil
+}
+
+// bigPiece arranges the edges between a piece p (nodes euler[base:
+// base+size]) and other pieces for splits without side tables: by the
+// depth-first position of their end in p (leaving: byPos, entering:
+// inByPos) and by the other piece, in order of (cost, index) (leaving:
+// byNb with slots of r.fwdG, entering: inByNb with slots of r.revG).
+// O(size + edges of p) memory; outSlot[piece] is the piece's slot.
+type bigPiece struct {
+	r                      *ranger
+	p, base                int32
+	size                   int
+	posStart, posEdges     []int32
+	inPosStart, inPosEdges []int32
+	nbStart, nbEdges       []int32
+	inNbStart, inNbEdges   []int32
+	outSlot                []int32
+}
+
+// group sorts edges into buckets by key (counting sort, stable).
+func group(edges []int32, buckets int, key func(int32) int32) (start, out []int32) {
+	start = make([]int32, buckets+1)
+	for _, i := range edges {
+		start[key(i)+1]++
+	}
+	for b := 0; b < buckets; b++ {
+		start[b+1] += start[b]
+	}
+	out = make([]int32, len(edges))
+	pos := append([]int32(nil), start[:buckets]...)
+	for _, i := range edges {
+		out[pos[key(i)]] = i
+		pos[key(i)]++
+	}
+	return start, out
+}
+
+func (r *ranger) newBigPiece(p, base int32, size int) *bigPiece {
+	bp := &bigPiece{r: r, p: p, base: base, size: size}
+	leaving := make([]int32, 0, r.start[p+1]-r.start[p])
+	for i := r.start[p]; i < r.start[p+1]; i++ {
+		leaving = append(leaving, i)
+	}
+	entering := r.redges[r.rstart[p]:r.rstart[p+1]]
+	bp.posStart, bp.posEdges = group(leaving, size, func(i int32) int32 { return r.tin[r.from[i]] - base })
+	bp.inPosStart, bp.inPosEdges = group(entering, size, func(i int32) int32 { return r.tin[r.to[i]] - base })
+	byCost := func(es []int32) {
+		sort.Slice(es, func(a, b int) bool {
+			i, j := es[a], es[b]
+			return r.w[i] < r.w[j] || (r.w[i] == r.w[j] && i < j)
+		})
+	}
+	nOut := int(r.fwdG.start[p+1] - r.fwdG.start[p])
+	nIn := int(r.revG.start[p+1] - r.revG.start[p])
+	bp.nbStart, bp.nbEdges = group(leaving, nOut, func(i int32) int32 { return r.fwdG.of[i] - r.fwdG.start[p] })
+	bp.inNbStart, bp.inNbEdges = group(entering, nIn, func(i int32) int32 { return r.revG.of[i] - r.revG.start[p] })
+	for j := 0; j < nOut; j++ {
+		byCost(bp.nbEdges[bp.nbStart[j]:bp.nbStart[j+1]])
+	}
+	for j := 0; j < nIn; j++ {
+		byCost(bp.inNbEdges[bp.inNbStart[j]:bp.inNbStart[j+1]])
+	}
+	bp.outSlot = make([]int32, r.k)
+	for c := range bp.outSlot {
+		bp.outSlot[c] = -1
+	}
+	for c := r.fwdG.start[p]; c < r.fwdG.start[p+1]; c++ {
+		bp.outSlot[r.fwdG.to[c]] = c - r.fwdG.start[p]
+	}
+	return bp
+}
+
+// smallSide finds the cheapest route from one side of the big piece bp.p
+// to the other through other pieces, leaving out piece skip (the hub): for
+// a cut at the subtree of positions [l, end), from the subtree (fromSub)
+// or from the rest. It searches from the smaller side: forward from its
+// leaving edges when that is the near side, backward from its entering
+// edges when it is the far side; each settled piece is checked for its
+// cheapest edge to (from) the other side. Routes costing bound or more are
+// not looked for. It returns the cost (unreached: none) and the edge
+// entering the far side. O(edges of the smaller side + the pieces settled
+// and their merged edges · log k).
+func (r *ranger) smallSide(bp *bigPiece, skip int32, l, end int, fromSub bool, bound int64) (int64, int32, error) {
+	r.searches++
+	r.resetSearch()
+	p, base := bp.p, bp.base
+	inSub := func(v int32) bool { q := int(r.tin[v] - base); return l <= q && q < end }
+	subSmall := 2*(end-l) <= bp.size
+	forward := subSmall == fromSub // search from the near side
+	// Positions of the smaller side: one range or two.
+	ranges := [][2]int{{l, end}}
+	if !subSmall {
+		ranges = [][2]int{{0, l}, {end, bp.size}}
+	}
+	posStart, posEdges, ends := bp.posStart, bp.posEdges, r.pTo
+	pg := &r.fwdG
+	if !forward {
+		posStart, posEdges, ends = bp.inPosStart, bp.inPosEdges, r.pFrom
+		pg = &r.revG
+	}
+	// Backward, pred[v] is the edge entering the far side that v's route
+	// starts from.
+	for _, rg := range ranges {
+		for _, i := range posEdges[posStart[rg[0]]:posStart[rg[1]]] {
+			if v := ends[i]; v != skip {
+				if err := r.offerFrom(v, 0, r.w[i], i); err != nil {
+					return 0, -1, err
+				}
+			}
+		}
+	}
+	best, bestI := unreached, int32(-1)
+	for len(r.heap) > 0 {
+		it := r.heap.pop()
+		u := it.piece
+		if r.settled[u] || it.d != r.dist[u] {
+			continue
+		}
+		if (bound != unreached && it.d >= bound) || (best != unreached && it.d >= best) {
+			break
+		}
+		r.settled[u] = true
+		// u's cheapest edge to the far side (forward) or from the near side.
+		var list []int32
+		if forward {
+			if j := r.inSlot[u]; j >= 0 {
+				list = bp.inNbEdges[bp.inNbStart[j]:bp.inNbStart[j+1]]
+			}
+		} else if j := bp.outSlot[u]; j >= 0 {
+			list = bp.nbEdges[bp.nbStart[j]:bp.nbStart[j+1]]
+		}
+		for _, i := range list {
+			var ok bool
+			if forward {
+				ok = inSub(r.to[i]) != fromSub // enters the far side
+			} else {
+				ok = inSub(r.from[i]) == fromSub // leaves the near side
+			}
+			if !ok {
+				continue
+			}
+			val, err := flow.AddChecked(it.d, r.w[i])
+			if err != nil {
+				return 0, -1, fmt.Errorf("dual: route cost %w", err)
+			}
+			if best == unreached || val < best {
+				best, bestI = val, i
+				if !forward {
+					bestI = r.pred[u]
+				}
+			}
+			break
+		}
+		for c := pg.start[u]; c < pg.start[u+1]; c++ {
+			if v := pg.to[c]; v != p && v != skip {
+				if err := r.offerFrom(v, it.d, pg.w[c], r.pred[u]); err != nil {
+					return 0, -1, err
+				}
+			}
+		}
+	}
+	if best != unreached && bound != unreached && best >= bound {
+		return unreached, -1, nil
+	}
+	return best, bestI, nil
+}
+
+// splitHub serves the splits of a piece p without side tables: the hub is
+// the piece with the most neighbouring pieces besides p. For the nodes of p
+// in depth-first order it holds the cheapest route from each node to the
+// hub (out: an edge leaving p, then a route avoiding p) and from the hub
+// to each node (in, with the edge entering p), minimised over subtrees
+// (sub), earlier positions (pre) and later ones (suf).
+type splitHub struct {
+	piece                     int32
+	outSub, outPre, outSuf    []int64
+	inSub, inPre, inSuf       []int64
+	inSubBy, inPreBy, inSufBy []int32
+}
+
+// newSplitHub builds the splitHub of piece p (nodes euler[base:base+size]):
+// two searches and O(size + edges of p).
+func (r *ranger) newSplitHub(p, base int32, size int) (*splitHub, error) {
+	g := r.g
+	h := &splitHub{piece: -1}
+	most := int32(-1)
+	for c := int32(0); int(c) < r.k; c++ {
+		if c == p {
+			continue
+		}
+		if d := r.fwdG.start[c+1] - r.fwdG.start[c] + r.revG.start[c+1] - r.revG.start[c]; d > most {
+			h.piece, most = c, d
+		}
+	}
+	if h.piece < 0 {
+		return h, nil
+	}
+	toHub, err := r.allDist(h.piece, true, p)
+	if err != nil {
+		return nil, err
+	}
+	fromHub, err := r.allDist(h.piece, false, p)
+	if err != nil {
+		return nil, err
+	}
+	none := func(n int) ([]int64, []int32) {
+		w, by := make([]int64, n), make([]int32, n)
+		for i := range by {
+			w[i], by[i] = unreached, -1
+		}
+		return w, by
+	}
+	var outBy []int32
+	h.outSub, outBy = none(size)
+	h.inSub, h.inSubBy = none(size)
+	for i := r.start[p]; i < r.start[p+1]; i++ {
+		if d := toHub[r.pTo[i]]; d != unreached || r.pTo[i] == h.piece {
+			if r.pTo[i] == h.piece {
+				d = 0
+			}
+			c, err := flow.AddChecked(r.w[i], d)
+			if err != nil {
+				return nil, fmt.Errorf("dual: route cost %w", err)
+			}
+			if q := r.tin[r.from[i]] - base; better(c, i, h.outSub[q], outBy[q]) {
+				h.outSub[q], outBy[q] = c, i
+			}
+		}
+	}
+	for _, i := range r.redges[r.rstart[p]:r.rstart[p+1]] {
+		if d := fromHub[r.pFrom[i]]; d != unreached || r.pFrom[i] == h.piece {
+			if r.pFrom[i] == h.piece {
+				d = 0
+			}
+			c, err := flow.AddChecked(d, r.w[i])
+			if err != nil {
+				return nil, fmt.Errorf("dual: route cost %w", err)
+			}
+			if q := r.tin[r.to[i]] - base; better(c, i, h.inSub[q], h.inSubBy[q]) {
+				h.inSub[q], h.inSubBy[q] = c, i
+			}
+		}
+	}
+	var outPreBy, outSufBy []int32
+	h.outPre, outPreBy = none(size + 1)
+	h.outSuf, outSufBy = none(size + 1)
+	h.inPre, h.inPreBy = none(size + 1)
+	h.inSuf, h.inSufBy = none(size + 1)
+	for q := 0; q < size; q++ {
+		minRow(h.outPre[q+1:q+2], outPreBy[q+1:q+2], h.outPre[q:q+1], outPreBy[q:q+1], h.outSub[q:q+1], outBy[q:q+1])
+		minRow(h.inPre[q+1:q+2], h.inPreBy[q+1:q+2], h.inPre[q:q+1], h.inPreBy[q:q+1], h.inSub[q:q+1], h.inSubBy[q:q+1])
+	}
+	for q := size - 1; q >= 0; q-- {
+		minRow(h.outSuf[q:q+1], outSufBy[q:q+1], h.outSuf[q+1:q+2], outSufBy[q+1:q+2], h.outSub[q:q+1], outBy[q:q+1])
+		minRow(h.inSuf[q:q+1], h.inSufBy[q:q+1], h.inSuf[q+1:q+2], h.inSufBy[q+1:q+2], h.inSub[q:q+1], h.inSubBy[q:q+1])
+	}
+	for q := size - 1; q >= 1; q-- {
+		v := r.euler[int(base)+q]
+		u := r.tin[g.other(int(g.parentArc[v]), v)] - base
+		minRow(h.outSub[u:u+1], outBy[u:u+1], h.outSub[u:u+1], outBy[u:u+1], h.outSub[q:q+1], outBy[q:q+1])
+		minRow(h.inSub[u:u+1], h.inSubBy[u:u+1], h.inSub[u:u+1], h.inSubBy[u:u+1], h.inSub[q:q+1], h.inSubBy[q:q+1])
+	}
+	return h, nil
+}
+
+// route returns the cheapest route through the hub from the subtree of
+// the node at position l (ending before end; fromSub) or from the rest of
+// the piece, to the other side, with the edge entering the far side
+// (unreached, -1: none).
+func (h *splitHub) route(l, end int, fromSub bool) (int64, int32, error) {
+	if h.piece < 0 {
+		return unreached, -1, nil
+	}
+	pick := func(sub, pre, suf []int64, subBy, preBy, sufBy []int32, subtree bool) (int64, int32) {
+		if subtree {
+			if subBy != nil {
+				return sub[l], subBy[l]
+			}
+			return sub[l], 0
+		}
+		a, b := pre[l], suf[end]
+		var ai, bi int32
+		if preBy != nil {
+			ai, bi = preBy[l], sufBy[end]
+		}
+		if a == unreached || (b != unreached && (b < a || (b == a && bi < ai))) {
+			return b, bi
+		}
+		return a, ai
+	}
+	o, _ := pick(h.outSub, h.outPre, h.outSuf, nil, nil, nil, fromSub)
+	in, by := pick(h.inSub, h.inPre, h.inSuf, h.inSubBy, h.inPreBy, h.inSufBy, !fromSub)
+	if o == unreached || in == unreached {
+		return unreached, -1, nil
+	}
+	d, err := flow.AddChecked(o, in)
+	if err != nil {
+		return 0, -1, fmt.Errorf("dual: route cost %w", err)
+	}
+	return d, by, nil
 }
 
 // nodes fills in the node prices.

@@ -1,6 +1,7 @@
 package dual_test
 
 import (
+	"fmt"
 	"math/rand/v2"
 	"testing"
 
@@ -109,7 +110,7 @@ func TestRangesAgainstOracle(t *testing.T) {
 				}
 			}
 		}
-		checkRoutes(t, i, n, y, a.Potential, s)
+		checkRoutes(t, i, n, y, a.Potential, s, nil)
 		checkNodePrices(t, i, n, opt.Cost, a.Potential, s)
 	}
 	t.Logf("%d limits checked; %d degenerate optima", checkedLimits, degenerate)
@@ -209,10 +210,11 @@ func components(n *flow.Network) []int {
 // ends, avoids the lane, and costs what its limit says (the break-even rate
 // or lower limit is minus the cost of the route back; the upper limit of a
 // lane at capacity is the cost of the route forward).
-func checkRoutes(t *testing.T, i int, n *flow.Network, y, p []int64, s *dual.Sensitivity) {
+// Only the lanes for which only returns true are checked (nil: all).
+func checkRoutes(t *testing.T, i int, n *flow.Network, y, p []int64, s *dual.Sensitivity, only func(e int) bool) {
 	t.Helper()
 	for e := range n.Tail {
-		if n.Lower[e] == n.Upper[e] {
+		if n.Lower[e] == n.Upper[e] || (only != nil && !only(e)) {
 			continue
 		}
 		lr := s.Lanes[e]
@@ -322,5 +324,125 @@ func TestRangesPublished(t *testing.T) {
 		if !lr.HasLower || lr.Lower != n.Rate[c.lane]-c.reduced || lr.ByRoute {
 			t.Errorf("%s lane %d: break-even %d (route %v), want %d (%s)", c.name, c.lane+1, lr.Lower, lr.ByRoute, n.Rate[c.lane]-c.reduced, c.source)
 		}
+	}
+}
+
+// TestRangesManyPieces checks networks of 20 to 60 nodes whose optima fall
+// into many pieces of lanes in use, so that the limits of unused lanes come
+// from searches over many source pieces (with distances through a hub
+// piece) and those of lanes in use from routes around cuts of pieces with
+// many neighbouring pieces. Every limit must equal the cost of the route
+// that dual.Route finds edge by edge (itself checked against the LP oracle
+// in TestRangesAgainstOracle), and on a few networks the node prices are
+// checked against the oracle directly.
+func TestRangesManyPieces(t *testing.T) {
+	rng := rand.New(rand.NewPCG(23, 5))
+	manyPieces := 0
+	for i := 0; i < 60; i++ {
+		o := randnet.RandomOptions(rng)
+		o.NegativeRates = false
+		o.Infeasible = false
+		o.Nodes = 20 + rng.IntN(41)
+		o.Lanes = 2*o.Nodes + rng.IntN(4*o.Nodes)
+		n := randnet.Network(rng, o)
+		opt, err := dual.Optimize(n, nil, nil)
+		if err != nil {
+			t.Fatal(err)
+		}
+		if opt.Status != flow.Optimal {
+			continue
+		}
+		a, err := dual.Check(n, opt.Flow)
+		if err != nil {
+			t.Fatal(err)
+		}
+		if a.Pieces >= 10 {
+			manyPieces++
+		}
+		s, err := dual.Ranges(n, opt.Flow, a.Potential)
+		if err != nil {
+			t.Fatalf("case %d: %v", i, err)
+		}
+		checkRoutes(t, i, n, opt.Flow, a.Potential, s, nil)
+	}
+	if manyPieces < 20 {
+		t.Errorf("only %d optima with 10 or more pieces: the test no longer covers them", manyPieces)
+	}
+}
+
+// bigPieceNetwork returns a network whose optimum has one piece of chain
+// nodes (a path of lanes in use at rate 0) and single-node pieces around
+// it, enough of them that the piece's nodes times its neighbouring pieces
+// exceed what Ranges keeps tables for (2^20): origin c0 sends one unit to
+// each other chain node; every spare node has lanes from and to random
+// chain nodes and to other spare nodes, all with positive rates, and
+// chain shortcuts and back lanes give routes inside the piece.
+func bigPieceNetwork(rng *rand.Rand, chain, spare int) *flow.Network {
+	nn := chain + spare
+	n := &flow.Network{Nodes: make([]string, nn), Supply: make([]int64, nn)}
+	for v := range n.Nodes {
+		n.Nodes[v] = fmt.Sprintf("n%d", v)
+	}
+	n.Supply[0] = int64(chain - 1)
+	for v := 1; v < chain; v++ {
+		n.Supply[v] = -1
+	}
+	lane := func(t, h int, rate int64) {
+		n.Tail = append(n.Tail, flow.NodeID(t))
+		n.Head = append(n.Head, flow.NodeID(h))
+		n.Lower = append(n.Lower, 0)
+		n.Upper = append(n.Upper, flow.NoLimit)
+		n.Rate = append(n.Rate, rate)
+	}
+	for v := 0; v+1 < chain; v++ {
+		lane(v, v+1, 0)
+	}
+	for x := chain; x < nn; x++ {
+		lane(rng.IntN(chain), x, 1+rng.Int64N(50))
+		lane(x, rng.IntN(chain), 1+rng.Int64N(50))
+		lane(x, chain+rng.IntN(spare), 1+rng.Int64N(20))
+	}
+	for j := 0; j < chain/10; j++ {
+		lane(rng.IntN(chain), rng.IntN(chain), 1+rng.Int64N(200))
+	}
+	return n
+}
+
+// TestRangesBigPiece covers pieces too large for side tables: the limits
+// of the chain lanes (all in use) must equal the cost of the route
+// dual.Route finds edge by edge.
+func TestRangesBigPiece(t *testing.T) {
+	rng := rand.New(rand.NewPCG(31, 7))
+	for i := 0; i < 2; i++ {
+		const chain, spare = 1100, 1000 // 1100 · (1000 + 1000) > 2^20
+		n := bigPieceNetwork(rng, chain, spare)
+		if err := n.Validate(); err != nil {
+			t.Fatal(err)
+		}
+		opt, err := dual.Optimize(n, nil, nil)
+		if err != nil || opt.Status != flow.Optimal {
+			t.Fatalf("case %d: %v %v", i, opt.Status, err)
+		}
+		a, err := dual.Check(n, opt.Flow)
+		if err != nil {
+			t.Fatal(err)
+		}
+		if a.Pieces < spare {
+			t.Fatalf("case %d: %d pieces, want the spare nodes apart", i, a.Pieces)
+		}
+		s, err := dual.Ranges(n, opt.Flow, a.Potential)
+		if err != nil {
+			t.Fatal(err)
+		}
+		byRoute := 0
+		for e := 0; e+1 < chain; e++ {
+			if s.Lanes[e].ByRoute {
+				byRoute++
+			}
+		}
+		if byRoute < chain/2 {
+			t.Errorf("case %d: only %d chain lanes limited by routes", i, byRoute)
+		}
+		checkRoutes(t, i, n, opt.Flow, a.Potential, s, func(e int) bool { return e+1 < chain })
 	}
 }
