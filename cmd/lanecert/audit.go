@@ -36,7 +36,7 @@ const defaultRows = 30
 
 // autoRangeLanes is the largest network whose rate ranges an audit computes
 // without being asked (their cost grows faster than the solve's).
-const autoRangeLanes = 20000
+const autoRangeLanes = 200000
 
 func addInputFlags(cmd *cobra.Command, o *auditOptions) {
 	f := cmd.Flags()
