@@ -84,17 +84,28 @@ func Extend(n *flow.Network, cands []flow.Candidate, opt ExtendOptions) (*Extens
 	}
 	// try solves the network with the given candidates and returns the
 	// total cost (fixed costs of the lanes used) or ok=false.
-	type trial struct {
-		set   []int
-		sol   *flow.Solution
-		total flow.Wide
-		ok    bool
-		short int64
+	// On an infeasible network every candidate set is solved on the network
+	// with unmet demand priced above any route, warm-started from that
+	// network's optimum: a set restores feasibility exactly when its optimum
+	// leaves nothing unmet.
+	var priced *pricedStart
+	if !x.WasFeasible {
+		if priced, err = newPricedStart(n, cands); err != nil {
+			return nil, err
+		}
+		if priced != nil {
+			x.Solves++
+		}
 	}
 	try := func(set []int) (trial, error) {
 		sub := make([]flow.Candidate, len(set))
 		for i, k := range set {
 			sub[i] = cands[k]
+		}
+		if priced != nil {
+			t, err := priced.try(n, set, sub, cands)
+			x.Solves++
+			return t, err
 		}
 		ext := n.WithLanes(sub)
 		var start []int64
@@ -264,6 +275,95 @@ func Extend(n *flow.Network, cands []flow.Candidate, opt ExtendOptions) (*Extens
 		}
 	}
 	return x, nil
+}
+
+// trial is one candidate set solved: the total cost (fixed costs of the
+// lanes used included) when ok, else the units still short.
+type trial struct {
+	set   []int
+	sol   *flow.Solution
+	total flow.Wide
+	ok    bool
+	short int64
+}
+
+// pricedStart is an infeasible network's optimum with unmet demand priced
+// above any route (flow.WithShortfall), the start of every candidate set's
+// solve.
+type pricedStart struct {
+	price int64
+	flow  []int64 // lanes of the network, then its unmet lanes
+}
+
+// newPricedStart solves n with unmet demand priced at one more than the sum
+// of all |rates| (lanes and candidates), so that every optimum leaves the
+// least possible demand unmet. It returns nil (no error) when the price or
+// the costs would overflow, or a candidate has a minimum; Extend then
+// solves each set from scratch.
+func newPricedStart(n *flow.Network, cands []flow.Candidate) (*pricedStart, error) {
+	price := int64(1)
+	var err error
+	for _, r := range n.Rate {
+		if price, err = flow.AddChecked(price, max(r, -r)); err != nil {
+			return nil, nil
+		}
+	}
+	for _, c := range cands {
+		if c.Lower > 0 {
+			return nil, nil
+		}
+		if price, err = flow.AddChecked(price, max(c.Rate, -c.Rate)); err != nil {
+			return nil, nil
+		}
+	}
+	ext, err := flow.WithShortfall(n, price, nil)
+	if err != nil {
+		return nil, nil // e.g. a node already named like the virtual one
+	}
+	sol, err := flow.Solve(ext, flow.SolveOptions{})
+	if err != nil || sol.Status != flow.Optimal {
+		return nil, nil
+	}
+	return &pricedStart{price: price, flow: sol.Flow}, nil
+}
+
+// try solves n with the candidates sub (indexes set) and priced unmet
+// demand, from the priced optimum plus nothing on the new lanes.
+func (ps *pricedStart) try(n *flow.Network, set []int, sub, cands []flow.Candidate) (trial, error) {
+	m := n.NumLanes()
+	ext, err := flow.WithShortfall(n.WithLanes(sub), ps.price, nil)
+	if err != nil {
+		return trial{}, err
+	}
+	start := make([]int64, ext.NumLanes())
+	copy(start, ps.flow[:m])
+	copy(start[m+len(sub):], ps.flow[m:])
+	sol, err := flow.Solve(ext, flow.SolveOptions{Start: start})
+	if err != nil {
+		return trial{}, err
+	}
+	t := trial{set: set}
+	if sol.Status != flow.Optimal {
+		return t, fmt.Errorf("dual: the network with priced unmet demand has no optimum (%v)", sol.Status)
+	}
+	for _, q := range sol.Flow[m+len(sub):] {
+		t.short += q
+	}
+	if t.short > 0 {
+		return t, nil
+	}
+	// Nothing unmet: the plan is feasible for n with the candidates, and
+	// its cost is the routing cost alone.
+	sol.Flow = sol.Flow[:m+len(sub)]
+	t.sol, t.ok, t.total = sol, true, sol.Cost
+	for i, k := range set {
+		if sol.Flow[m+i] > 0 {
+			if t.total, err = t.total.Add(flow.WideFrom(cands[k].Fixed)); err != nil {
+				return t, fmt.Errorf("dual: total cost %w", err)
+			}
+		}
+	}
+	return t, nil
 }
 
 // hopeless marks the candidates that cannot improve on the network alone
