@@ -312,6 +312,10 @@ func writeHuman(w io.Writer, d *Document, opt Options, md bool) error {
 			p.bullet(violationText(v))
 		}
 	}
+	if len(d.Cycles) > 1 {
+		p.gap()
+		p.line("Each reroute below stands on its own (they may share lanes): apply one, then audit again, or take the repair further down.")
+	}
 	for i, c := range d.Cycles {
 		p.gap()
 		p.head(fmt.Sprintf("Reroute %d", i+1))
