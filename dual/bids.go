@@ -37,8 +37,10 @@ type BidSet struct {
 // (valid potentials p, cost cost): for each, its break-even rate (exact, as
 // for LaneRange) and the exact saving if it alone were added, re-solved by
 // the network simplex starting from y; then the best set of all of them.
-// Cost: one search per candidate for the break-even rate, one warm-started
-// solve per candidate, and one for the set.
+// A candidate at or above its break-even rate, without a minimum, saves
+// nothing and is not re-solved. Cost: one search per candidate for the
+// break-even rate, one warm-started solve per candidate below it, and one
+// for the set.
 func EvaluateBids(n *flow.Network, y, p []int64, cost flow.Wide, cands []flow.Candidate) ([]BidResult, *BidSet, error) {
 	pr, err := newPricer(n, y, p)
 	if err != nil {
@@ -56,6 +58,12 @@ func EvaluateBids(n *flow.Network, y, p []int64, cost flow.Wide, cands []flow.Ca
 			if be > c.Rate {
 				br.SavingPerUnit = be - c.Rate
 			}
+		}
+		if c.Lower == 0 && (!ok || c.Rate >= be) {
+			// At or above its break-even rate the lane cannot lower the
+			// cost: the optimum stays y with nothing on it. No solve needed.
+			br.Feasible = true
+			continue
 		}
 		alone, err := solveWith(n, y, []flow.Candidate{c})
 		if err != nil {
