@@ -8,7 +8,6 @@ import (
 
 	"lanecert/dual"
 	"lanecert/flow"
-	"lanecert/internal/netgen"
 )
 
 // candidatesFor draws k candidate lanes between random nodes of n, with
@@ -37,15 +36,7 @@ func candidatesFor(n *flow.Network, k int, fixed bool) []flow.Candidate {
 // with fixed costs on a squeezed (infeasible) copy.
 func BenchmarkSensitivityLarge(b *testing.B) {
 	for _, c := range rangeCases {
-		n := c.make()
-		sol, err := flow.Solve(n, flow.SolveOptions{})
-		if err != nil || sol.Status != flow.Optimal {
-			b.Fatal(sol.Status, err)
-		}
-		a, err := dual.Check(n, sol.Flow)
-		if err != nil {
-			b.Fatal(err)
-		}
+		n, sol, a := solvedCase(b, c.make)
 		b.Run(c.name+"/solve", func(b *testing.B) {
 			for i := 0; i < b.N; i++ {
 				flow.Solve(n, flow.SolveOptions{})
@@ -92,5 +83,3 @@ func BenchmarkSensitivityLarge(b *testing.B) {
 		})
 	}
 }
-
-var _ = netgen.Transport

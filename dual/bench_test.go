@@ -192,15 +192,7 @@ var rangeCases = []struct {
 // the ratio of the two from one run).
 func BenchmarkRanges(b *testing.B) {
 	for _, c := range rangeCases {
-		n := c.make()
-		sol, err := flow.Solve(n, flow.SolveOptions{})
-		if err != nil || sol.Status != flow.Optimal {
-			b.Fatal(sol.Status, err)
-		}
-		a, err := dual.Check(n, sol.Flow)
-		if err != nil {
-			b.Fatal(err)
-		}
+		n, sol, a := solvedCase(b, c.make)
 		b.Run(c.name+"/solve", func(b *testing.B) {
 			for i := 0; i < b.N; i++ {
 				if _, err := flow.Solve(n, flow.SolveOptions{}); err != nil {
@@ -211,6 +203,7 @@ func BenchmarkRanges(b *testing.B) {
 		b.Run(c.name+"/ranges", func(b *testing.B) {
 			b.ReportAllocs()
 			var s *dual.Sensitivity
+			var err error
 			for i := 0; i < b.N; i++ {
 				if s, err = dual.Ranges(n, sol.Flow, a.Potential); err != nil {
 					b.Fatal(err)
@@ -220,4 +213,19 @@ func BenchmarkRanges(b *testing.B) {
 			b.ReportMetric(float64(a.Pieces), "pieces")
 		})
 	}
+}
+
+// solvedCase builds a benchmark network and audits its optimal plan.
+func solvedCase(b *testing.B, make func() *flow.Network) (*flow.Network, *flow.Solution, *dual.Audit) {
+	b.Helper()
+	n := make()
+	sol, err := flow.Solve(n, flow.SolveOptions{})
+	if err != nil || sol.Status != flow.Optimal {
+		b.Fatal(sol.Status, err)
+	}
+	a, err := dual.Check(n, sol.Flow)
+	if err != nil {
+		b.Fatal(err)
+	}
+	return n, sol, a
 }

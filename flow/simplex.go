@@ -1867,25 +1867,7 @@ func (s *simplex) pivotFree(a int32) (bool, error) {
 // arithmetic. O(|V|).
 func (s *simplex) forestPotentials(forest, comp []int32) []int64 {
 	nn := s.nNodes
-	fstart := make([]int32, nn+1)
-	for _, a := range forest {
-		t, h := s.ends(a)
-		fstart[t+1]++
-		fstart[h+1]++
-	}
-	for v := 0; v < nn; v++ {
-		fstart[v+1] += fstart[v]
-	}
-	fadj := make([]int32, fstart[nn])
-	ffill := make([]int32, nn)
-	copy(ffill, fstart[:nn])
-	for _, a := range forest {
-		t, h := s.ends(a)
-		fadj[ffill[t]] = a
-		ffill[t]++
-		fadj[ffill[h]] = a
-		ffill[h]++
-	}
+	fstart, fadj := s.undirected(forest, nn)
 	rho := make([]int64, nn)
 	if s.checked {
 		return rho
@@ -2248,26 +2230,10 @@ const maxRefused = 1024
 func (s *simplex) setTree(tree []int32) {
 	r := s.root
 	nt := s.nNodes + 1
-	start := make([]int32, nt+1)
 	for _, a := range tree {
 		s.state[a] = stateTree
-		t, h := s.ends(a)
-		start[t+1]++
-		start[h+1]++
 	}
-	for v := 0; v < nt; v++ {
-		start[v+1] += start[v]
-	}
-	adj := make([]int32, start[nt])
-	fill := make([]int32, nt)
-	copy(fill, start[:nt])
-	for _, a := range tree {
-		t, h := s.ends(a)
-		adj[fill[t]] = a
-		fill[t]++
-		adj[fill[h]] = a
-		fill[h]++
-	}
+	start, adj := s.undirected(tree, nt)
 	order := make([]int32, 0, nt)
 	seen := make([]bool, nt)
 	seen[r] = true
@@ -2311,4 +2277,30 @@ func (s *simplex) setTree(tree []int32) {
 	for a := s.artStart; a < s.na; a++ {
 		s.xcost[a-s.m] = 0
 	}
+}
+
+// undirected returns the arcs as a compressed undirected adjacency over
+// nodes 0..n-1: the arcs at node v are adj[start[v]:start[v+1]], each arc
+// listed at both ends. O(n + len(arcs)).
+func (s *simplex) undirected(arcs []int32, n int) (start, adj []int32) {
+	start = make([]int32, n+1)
+	for _, a := range arcs {
+		t, h := s.ends(a)
+		start[t+1]++
+		start[h+1]++
+	}
+	for v := 0; v < n; v++ {
+		start[v+1] += start[v]
+	}
+	adj = make([]int32, start[n])
+	fill := make([]int32, n)
+	copy(fill, start[:n])
+	for _, a := range arcs {
+		t, h := s.ends(a)
+		adj[fill[t]] = a
+		fill[t]++
+		adj[fill[h]] = a
+		fill[h]++
+	}
+	return start, adj
 }

@@ -68,18 +68,9 @@ type gridLane struct {
 // in O(r·c) time for r origins and c destinations, and keeps O(|V|+|E|)
 // memory beyond the file's text.
 func ReadGrid(r io.Reader, file string, opt TableOptions) (*Network, error) {
-	data, err := io.ReadAll(r)
-	if err != nil {
-		return nil, fmt.Errorf("flow: reading %s: %w", file, err)
-	}
-	cr, err := newCSVReader(data, file)
+	cr, header, err := openGrid(r, file)
 	if err != nil {
 		return nil, err
-	}
-	cr.FieldsPerRecord = -1
-	header, err := cr.Read()
-	if err != nil {
-		return nil, csvError(file, err)
 	}
 	label := strings.TrimSpace(header[0]) // the reader reuses header's slice
 	g := &gridText{file: file, r: cr, comma: opt.DecimalComma, e: &errs{file: file}}
@@ -356,18 +347,9 @@ func ReadGridPlan(r io.Reader, file string, n *Network, opt TableOptions) (*RawP
 	if err != nil {
 		return nil, err
 	}
-	data, err := io.ReadAll(r)
-	if err != nil {
-		return nil, fmt.Errorf("flow: reading %s: %w", file, err)
-	}
-	cr, err := newCSVReader(data, file)
+	cr, header, err := openGrid(r, file)
 	if err != nil {
 		return nil, err
-	}
-	cr.FieldsPerRecord = -1
-	header, err := cr.Read()
-	if err != nil {
-		return nil, csvError(file, err)
 	}
 	gs := n.Grid
 	nd := len(gs.Dests)
@@ -623,4 +605,23 @@ func WriteGridAudit(w io.Writer, n *Network, x, reduced, potential []int64) erro
 	}
 	cw.Flush()
 	return cw.Error()
+}
+
+// openGrid reads a grid's header row; the reader allows rows of any length
+// (the grid readers check the shape themselves, with positions).
+func openGrid(r io.Reader, file string) (*csv.Reader, []string, error) {
+	data, err := io.ReadAll(r)
+	if err != nil {
+		return nil, nil, fmt.Errorf("flow: reading %s: %w", file, err)
+	}
+	cr, err := newCSVReader(data, file)
+	if err != nil {
+		return nil, nil, err
+	}
+	cr.FieldsPerRecord = -1
+	header, err := cr.Read()
+	if err != nil {
+		return nil, nil, csvError(file, err)
+	}
+	return cr, header, nil
 }
