@@ -30,10 +30,67 @@ func candidatesFor(n *flow.Network, k int, fixed bool) []flow.Candidate {
 	return cs
 }
 
+// squeeze returns a copy of n in which the destination with the largest
+// demand (the first such) can receive only 80 % of it: the capacities of
+// its inbound lanes sum to that (spread evenly, never above an existing
+// capacity). The copy cannot meet its demands; short lists the squeezed
+// destination.
+func squeeze(n *flow.Network) (*flow.Network, []flow.NodeID) {
+	c := *n
+	c.Upper = append([]int64(nil), n.Upper...)
+	into := make([][]int, n.NumNodes())
+	for e, h := range n.Head {
+		into[h] = append(into[h], e)
+	}
+	top := -1
+	for v, b := range n.Supply {
+		if b < 0 && len(into[v]) > 0 && (top < 0 || b < n.Supply[top]) {
+			top = v
+		}
+	}
+	short := []flow.NodeID{flow.NodeID(top)}
+	for _, v := range short {
+		b := n.Supply[v]
+		total := -b * 8 / 10
+		each, extra := total/int64(len(into[v])), total%int64(len(into[v]))
+		for i, e := range into[v] {
+			u := each
+			if int64(i) < extra {
+				u++
+			}
+			if c.Upper[e] == flow.NoLimit || u < c.Upper[e] {
+				c.Upper[e] = u
+			}
+		}
+	}
+	return &c, short
+}
+
+// candidatesInto draws k candidate lanes from random origins into the given
+// destinations, with capacities of 1 to 100 units and fixed costs (fixed
+// seed).
+func candidatesInto(n *flow.Network, dests []flow.NodeID, k int) []flow.Candidate {
+	rng := rand.New(rand.NewPCG(43, 8))
+	var origins []flow.NodeID
+	for v, b := range n.Supply {
+		if b > 0 {
+			origins = append(origins, flow.NodeID(v))
+		}
+	}
+	cs := make([]flow.Candidate, k)
+	for i := range cs {
+		cs[i] = flow.Candidate{ID: "t", Tail: origins[rng.IntN(len(origins))], Head: dests[rng.IntN(len(dests))],
+			Rate: 1 + rng.Int64N(1000), Upper: 1 + rng.Int64N(100), Fixed: rng.Int64N(20000), Same: -1}
+	}
+	return cs
+}
+
 // BenchmarkSensitivityLarge times, on 10^5-lane networks: one solve, one
 // `why` route, 1,000 bids (each re-solved warm from the optimum, then all
 // together), and the cut plus the cheapest lanes among 1,000 candidates
-// with fixed costs on a squeezed (infeasible) copy.
+// with fixed costs on a squeezed (infeasible) copy, random or all into the
+// short destinations, and the cheapest single lane among 1,000 random ones
+// on the network itself (feasible: the lanes that lower its cost).
 func BenchmarkSensitivityLarge(b *testing.B) {
 	for _, c := range rangeCases {
 		n, sol, a := solvedCase(b, c.make)
@@ -57,24 +114,38 @@ func BenchmarkSensitivityLarge(b *testing.B) {
 				}
 			}
 		})
-		squeezed := *n
-		squeezed.Upper = append([]int64(nil), n.Upper...)
-		for e := range squeezed.Upper {
-			if e%3 == 0 && sol.Flow[e] > 1 {
-				squeezed.Upper[e] = sol.Flow[e] / 2
-			}
-		}
+		squeezed, short := squeeze(n)
 		fixedCands := candidatesFor(n, 1000, true)
+		targeted := candidatesInto(n, short, 1000)
 		b.Run(c.name+"/cut", func(b *testing.B) {
 			for i := 0; i < b.N; i++ {
-				if _, err := flow.FindCut(&squeezed); err != nil {
+				if _, err := flow.FindCut(squeezed); err != nil {
 					b.Fatal(err)
 				}
 			}
 		})
 		b.Run(c.name+"/cut+single1000fixed", func(b *testing.B) {
 			for i := 0; i < b.N; i++ {
-				x, err := dual.Extend(&squeezed, fixedCands, dual.ExtendOptions{SinglesOnly: true})
+				x, err := dual.Extend(squeezed, fixedCands, dual.ExtendOptions{SinglesOnly: true})
+				if err != nil {
+					b.Fatal(err)
+				}
+				b.ReportMetric(float64(x.Solves), "solves")
+			}
+		})
+		b.Run(c.name+"/cut+single1000targeted", func(b *testing.B) {
+			for i := 0; i < b.N; i++ {
+				x, err := dual.Extend(squeezed, targeted, dual.ExtendOptions{SinglesOnly: true})
+				if err != nil {
+					b.Fatal(err)
+				}
+				b.ReportMetric(float64(x.Solves), "solves")
+			}
+		})
+		feasible := candidatesFor(n, 1000, true)
+		b.Run(c.name+"/feasible+single1000fixed", func(b *testing.B) {
+			for i := 0; i < b.N; i++ {
+				x, err := dual.Extend(n, feasible, dual.ExtendOptions{SinglesOnly: true})
 				if err != nil {
 					b.Fatal(err)
 				}

@@ -39,14 +39,18 @@ type BidSet struct {
 // the network simplex starting from y; then the best set of all of them.
 // A candidate at or above its break-even rate, without a minimum, saves
 // nothing and is not re-solved. Cost: one search per candidate for the
-// break-even rate, one warm-started solve per candidate below it, and one
-// for the set.
+// break-even rate; for the candidates below it one solve warm-started from
+// y that keeps its basis (flow.Basis), then per candidate a copy of the
+// solver's state, the pivots the lane causes and one pass over the lanes;
+// and one more for the set. Candidates with a minimum are each solved
+// warm-started from y instead.
 func EvaluateBids(n *flow.Network, y, p []int64, cost flow.Wide, cands []flow.Candidate) ([]BidResult, *BidSet, error) {
 	pr, err := newPricer(n, y, p)
 	if err != nil {
 		return nil, nil, err
 	}
 	out := make([]BidResult, len(cands))
+	ws := &warmSolver{n: n, y: y}
 	for i, c := range cands {
 		br := &out[i]
 		be, ok, err := pr.breakEven(c.Tail, c.Head)
@@ -65,32 +69,83 @@ func EvaluateBids(n *flow.Network, y, p []int64, cost flow.Wide, cands []flow.Ca
 			br.Feasible = true
 			continue
 		}
-		alone, err := solveWith(n, y, []flow.Candidate{c})
+		alone, err := ws.with([]flow.Candidate{c})
 		if err != nil {
 			return nil, nil, err
 		}
-		br.Feasible = alone.Status == flow.Optimal
+		br.Feasible = alone.ok
 		if br.Feasible {
-			br.Flow = alone.Flow[n.NumLanes()]
+			br.Flow = alone.flows[0]
 			br.Used = br.Flow > 0
-			if br.Saving, err = cost.Sub(alone.Cost); err != nil {
+			if br.Saving, err = cost.Sub(alone.cost); err != nil {
 				return nil, nil, fmt.Errorf("dual: saving %w", err)
 			}
 		}
 	}
 	set := &BidSet{Flows: make([]int64, len(cands))}
-	all, err := solveWith(n, y, cands)
+	all, err := ws.with(cands)
 	if err != nil {
 		return nil, nil, err
 	}
-	set.Feasible = all.Status == flow.Optimal
+	set.Feasible = all.ok
 	if set.Feasible {
-		copy(set.Flows, all.Flow[n.NumLanes():])
-		if set.Saving, err = cost.Sub(all.Cost); err != nil {
+		copy(set.Flows, all.flows)
+		if set.Saving, err = cost.Sub(all.cost); err != nil {
 			return nil, nil, fmt.Errorf("dual: saving %w", err)
 		}
 	}
 	return out, set, nil
+}
+
+// warmSolver re-solves n with lanes added: from a kept basis of n's optimum
+// (found once, by a solve warm-started from y, when first needed) for lanes
+// without minimums, else by a solve warm-started from y.
+type warmSolver struct {
+	n     *flow.Network
+	y     []int64
+	basis *flow.Basis
+}
+
+// withResult is the optimum of n with lanes added: its cost and the flows
+// on the added lanes (ok false: no feasible plan).
+type withResult struct {
+	ok    bool
+	cost  flow.Wide
+	flows []int64
+}
+
+func (ws *warmSolver) with(cands []flow.Candidate) (withResult, error) {
+	if !hasMinimum(cands) {
+		if ws.basis == nil {
+			sol, err := flow.Solve(ws.n, flow.SolveOptions{Start: ws.y, Keep: true})
+			if err != nil {
+				return withResult{}, err
+			}
+			if sol.Status != flow.Optimal {
+				return withResult{}, fmt.Errorf("dual: the network has no optimum (%v)", sol.Status)
+			}
+			ws.basis = sol.Basis
+		}
+		add, err := ws.basis.Add(cands)
+		if err != nil {
+			return withResult{}, err
+		}
+		if add.Status != flow.Optimal {
+			return withResult{}, fmt.Errorf("dual: with the bids added the cost falls without limit (a cycle of lanes without capacity)")
+		}
+		return withResult{ok: true, cost: add.Cost, flows: add.Extra}, nil
+	}
+	sol, err := solveWith(ws.n, ws.y, cands)
+	if err != nil {
+		return withResult{}, err
+	}
+	switch sol.Status {
+	case flow.Unbounded:
+		return withResult{}, fmt.Errorf("dual: with the bids added the cost falls without limit (a cycle of lanes without capacity)")
+	case flow.Infeasible:
+		return withResult{}, nil
+	}
+	return withResult{ok: true, cost: sol.Cost, flows: sol.Flow[ws.n.NumLanes():]}, nil
 }
 
 // pricer answers break-even questions about new lanes for an optimal plan.

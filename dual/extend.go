@@ -43,19 +43,36 @@ type ExtendOptions struct {
 	// GreedyRounds bounds the rounds of adding one more lane after the best
 	// pair (default 10).
 	GreedyRounds int
-	// SinglesOnly stops after the best single lane.
+	// SinglesOnly looks for the best single lane only (also without fixed
+	// costs); Exact then means that no other single lane is better (no
+	// bound is computed).
 	SinglesOnly bool
+	// Cut is flow.FindCut(n) when CutKnown (nil: the network can meet its
+	// demands), so that a caller who has it spares Extend the search.
+	Cut      *flow.Cut
+	CutKnown bool
 }
 
 // Extend finds the cheapest set of candidate lanes to open. Without fixed
 // costs this is one minimum-cost flow over the network and all candidates,
 // exact. With fixed costs it is a fixed-charge problem: the best single lane
 // and the best pair (among the PairPool best singles) are found by
-// re-solving with them added (warm-started from the optimal plan when the
-// network is feasible), then lanes are added greedily while that lowers the
-// total; the answer comes with a lower bound from the linear relaxation
-// (each candidate's rate raised by its fixed cost spread over the most it
-// can carry, rounded down), so the distance to the best is bounded.
+// re-solving with them added, then lanes are added greedily while that
+// lowers the total; the answer comes with a lower bound from the linear
+// relaxation (each candidate's rate raised by its fixed cost spread over the
+// most it can carry, rounded down), so the distance to the best is bounded.
+//
+// Every candidate set is solved from one kept optimal basis (flow.Basis):
+// the network's optimum when it can meet its demands, else the optimum of
+// the network with unmet demand priced above any route (flow.WithShortfall),
+// where a set restores feasibility exactly when its optimum leaves nothing
+// unmet. Each set then costs a copy of the solver's state, the pivots the
+// new lanes cause and one pass over the lanes. On an infeasible network a
+// single lane that cannot help alone (not entering the short region of the
+// cut, or with less room than the units short) is not solved. When the
+// priced network cannot be used (candidates with minimums, a price that
+// would overflow, infeasibility caused by minimums) each set is solved from
+// scratch.
 func Extend(n *flow.Network, cands []flow.Candidate, opt ExtendOptions) (*Extension, error) {
 	if opt.PairPool == 0 {
 		opt.PairPool = 30
@@ -64,17 +81,12 @@ func Extend(n *flow.Network, cands []flow.Candidate, opt ExtendOptions) (*Extens
 		opt.GreedyRounds = 10
 	}
 	x := &Extension{}
-	base, err := flow.Solve(n, flow.SolveOptions{})
-	if err != nil {
-		return nil, err
-	}
-	x.Solves++
-	if base.Status == flow.Unbounded {
-		return nil, fmt.Errorf("dual: no optimum: a cycle of lanes without capacity lowers the cost without limit")
-	}
-	var baseFlow []int64
-	if base.Status == flow.Optimal {
-		x.WasFeasible, x.BaseCost, baseFlow = true, base.Cost, base.Flow
+	cut := opt.Cut
+	if !opt.CutKnown {
+		var err error
+		if cut, err = flow.FindCut(n); err != nil {
+			return nil, err
+		}
 	}
 	fixed := false
 	for _, c := range cands {
@@ -82,94 +94,58 @@ func Extend(n *flow.Network, cands []flow.Candidate, opt ExtendOptions) (*Extens
 			fixed = true
 		}
 	}
-	// try solves the network with the given candidates and returns the
-	// total cost (fixed costs of the lanes used) or ok=false.
-	// On an infeasible network every candidate set is solved on the network
-	// with unmet demand priced above any route, warm-started from that
-	// network's optimum: a set restores feasibility exactly when its optimum
-	// leaves nothing unmet.
-	var priced *pricedStart
-	if !x.WasFeasible {
-		if priced, err = newPricedStart(n, cands); err != nil {
+	sv := &setSolver{n: n, cands: cands, x: x}
+	if cut == nil {
+		base, err := flow.Solve(n, flow.SolveOptions{Keep: !hasMinimum(cands)})
+		if err != nil {
 			return nil, err
 		}
-		if priced != nil {
-			x.Solves++
-		}
-	}
-	try := func(set []int) (trial, error) {
-		sub := make([]flow.Candidate, len(set))
-		for i, k := range set {
-			sub[i] = cands[k]
-		}
-		if priced != nil {
-			t, err := priced.try(n, set, sub, cands)
-			x.Solves++
-			return t, err
-		}
-		ext := n.WithLanes(sub)
-		var start []int64
-		if baseFlow != nil {
-			start = make([]int64, ext.NumLanes())
-			copy(start, baseFlow)
-			for _, c := range sub {
-				if c.Lower > 0 {
-					start = nil
-					break
-				}
-			}
-		}
-		sol, err := flow.Solve(ext, flow.SolveOptions{Start: start})
 		x.Solves++
-		if err != nil {
-			return trial{}, err
-		}
-		t := trial{set: set, sol: sol}
-		switch sol.Status {
+		switch base.Status {
 		case flow.Unbounded:
-			return t, fmt.Errorf("dual: with candidates added the cost falls without limit (a cycle without capacity)")
+			return nil, fmt.Errorf("dual: no optimum: a cycle of lanes without capacity lowers the cost without limit")
 		case flow.Infeasible:
-			t.short = sol.Shortfall
-			return t, nil
+			return nil, fmt.Errorf("dual: the network has no cut but cannot meet its demands (shortfall %d)", base.Shortfall)
 		}
-		t.ok, t.total = true, sol.Cost
-		for i, k := range set {
-			if sol.Flow[n.NumLanes()+i] > 0 {
-				if t.total, err = t.total.Add(flow.WideFrom(cands[k].Fixed)); err != nil {
-					return t, fmt.Errorf("dual: total cost %w", err)
-				}
-			}
+		x.WasFeasible, x.BaseCost = true, base.Cost
+		sv.baseFlow, sv.basis = base.Flow, base.Basis
+	} else {
+		basis, unmet, err := pricedBasis(n, cands)
+		if err != nil {
+			return nil, err
 		}
-		return t, nil
+		if basis != nil {
+			x.Solves++
+		}
+		sv.basis, sv.unmet = basis, unmet
 	}
 	all := make([]int, len(cands))
 	for i := range all {
 		all[i] = i
 	}
-	var best trial
 	if x.WasFeasible {
-		best = trial{ok: true, total: base.Cost}
+		sv.best = trial{ok: true, total: x.BaseCost, plan: sv.baseFlow}
 	}
-	better := func(t trial) bool {
-		return t.ok && (!best.ok || t.total.Cmp(best.total) < 0 || (t.total.Cmp(best.total) == 0 && len(t.set) < len(best.set)))
-	}
-	if !fixed {
-		t, err := try(all)
+	if !fixed && !opt.SinglesOnly {
+		t, err := sv.try(all)
 		if err != nil {
 			return nil, err
 		}
+		sv.consider(t)
 		x.Method, x.Exact = "one minimum-cost flow over the network and every candidate (no fixed costs: exact)", true
-		if t.ok {
-			best = t
-		}
 	} else {
-		// A single lane that cannot help is not solved: on an infeasible
-		// network it must enter the short region from outside with room for
-		// the units short; on a feasible one it must cost less than its
-		// break-even rate (or carry a minimum).
-		hopeless, err := x.hopeless(n, base, cands)
-		if err != nil {
-			return nil, err
+		// On an infeasible network a single lane must enter the short
+		// region from outside with room for the units short.
+		hopeless := make([]bool, len(cands))
+		if cut != nil && !cut.Hold {
+			in := make([]bool, n.NumNodes())
+			for _, v := range cut.Region {
+				in[v] = true
+			}
+			for i, c := range cands {
+				room := c.Upper == flow.NoLimit || c.Upper >= cut.Short
+				hopeless[i] = in[c.Tail] || !in[c.Head] || !room
+			}
 		}
 		singles := make([]trial, len(cands))
 		for i := range cands {
@@ -177,12 +153,11 @@ func Extend(n *flow.Network, cands []flow.Candidate, opt ExtendOptions) (*Extens
 				singles[i] = trial{set: []int{i}, short: -1}
 				continue
 			}
-			if singles[i], err = try([]int{i}); err != nil {
+			t, err := sv.try([]int{i})
+			if err != nil {
 				return nil, err
 			}
-			if better(singles[i]) {
-				best = singles[i]
-			}
+			singles[i] = sv.consider(t)
 		}
 		if opt.SinglesOnly {
 			opt.PairPool, opt.GreedyRounds = 0, 0
@@ -209,34 +184,34 @@ func Extend(n *flow.Network, cands []flow.Candidate, opt ExtendOptions) (*Extens
 		sort.Ints(pool)
 		for a := 0; a < len(pool) && opt.PairPool > 0; a++ {
 			for b := a + 1; b < len(pool); b++ {
-				t, err := try([]int{pool[a], pool[b]})
+				t, err := sv.try([]int{pool[a], pool[b]})
 				if err != nil {
 					return nil, err
 				}
-				if better(t) {
-					best = t
-				}
+				sv.consider(t)
 			}
 		}
 		// Greedy: add the lane that lowers the total most, while any does.
-		for round := 0; round < opt.GreedyRounds && best.ok; round++ {
-			in := map[int]bool{}
-			for _, k := range best.set {
+		for round := 0; round < opt.GreedyRounds && sv.best.ok; round++ {
+			in := make([]bool, len(cands))
+			for _, k := range sv.best.set {
 				in[k] = true
 			}
 			improved := false
+			base := sv.best.set
 			for k := range cands {
 				if in[k] {
 					continue
 				}
-				set := append(append([]int(nil), best.set...), k)
+				set := append(append([]int(nil), base...), k)
 				sort.Ints(set)
-				t, err := try(set)
+				t, err := sv.try(set)
 				if err != nil {
 					return nil, err
 				}
-				if better(t) {
-					best, improved = t, true
+				if sv.better(t) {
+					sv.consider(t)
+					improved = true
 				}
 			}
 			if !improved {
@@ -251,25 +226,25 @@ func Extend(n *flow.Network, cands []flow.Candidate, opt ExtendOptions) (*Extens
 			x.Method = "the best single lane (every single lane that can help)"
 		}
 		x.Exact = len(cands) <= 1 || (len(cands) == 2 && !opt.SinglesOnly)
-		// Lower bound: the linear relaxation.
-		if err := x.bound(n, cands); err != nil {
+		if opt.SinglesOnly {
+			// Every single lane was solved exactly or shown unable to
+			// help: the answer is the best single lane.
+			x.Exact = true
+		} else if err := sv.bound(); err != nil { // the linear relaxation
 			return nil, err
 		}
-		if x.HasBound && best.ok && best.total.Cmp(x.Bound) == 0 {
+		if x.HasBound && sv.best.ok && sv.best.total.Cmp(x.Bound) == 0 {
 			x.Exact = true
 		}
 	}
+	best := sv.best
 	if !best.ok {
 		return x, nil
 	}
-	x.Feasible, x.Cost = true, best.total
-	if best.sol == nil { // the network alone is best
-		x.Plan = baseFlow
-		return x, nil
-	}
-	x.Plan = best.sol.Flow
+	x.Feasible, x.Cost, x.Plan = true, best.total, best.plan
+	m := n.NumLanes()
 	for i, k := range best.set {
-		if q := best.sol.Flow[n.NumLanes()+i]; q > 0 {
+		if q := best.plan[m+i]; q > 0 {
 			x.Chosen = append(x.Chosen, k)
 			x.Flows = append(x.Flows, q)
 		}
@@ -277,88 +252,89 @@ func Extend(n *flow.Network, cands []flow.Candidate, opt ExtendOptions) (*Extens
 	return x, nil
 }
 
+func hasMinimum(cands []flow.Candidate) bool {
+	for _, c := range cands {
+		if c.Lower > 0 {
+			return true
+		}
+	}
+	return false
+}
+
 // trial is one candidate set solved: the total cost (fixed costs of the
-// lanes used included) when ok, else the units still short.
+// lanes used included) when ok, else the units still short (-1: not tried).
+// plan (the network's lanes, then the set's) is filled once the trial is
+// the best so far.
 type trial struct {
 	set   []int
-	sol   *flow.Solution
 	total flow.Wide
 	ok    bool
 	short int64
+	plan  []int64
+	added *flow.Added // when solved from a basis: the plan until the next Add
+	flow  []int64     // when solved from scratch: the plan
 }
 
-// pricedStart is an infeasible network's optimum with unmet demand priced
-// above any route (flow.WithShortfall), the start of every candidate set's
-// solve.
-type pricedStart struct {
-	price int64
-	flow  []int64 // lanes of the network, then its unmet lanes
+// setSolver solves candidate sets: from a kept basis when there is one
+// (the network's, or the priced network's with unmet lanes m..m+unmet-1),
+// else from scratch; best is the best trial so far.
+type setSolver struct {
+	n        *flow.Network
+	cands    []flow.Candidate
+	x        *Extension
+	basis    *flow.Basis
+	unmet    int
+	baseFlow []int64
+	best     trial
 }
 
-// newPricedStart solves n with unmet demand priced at one more than the sum
-// of all |rates| (lanes and candidates), so that every optimum leaves the
-// least possible demand unmet. It returns nil (no error) when the price or
-// the costs would overflow, or a candidate has a minimum; Extend then
-// solves each set from scratch.
-func newPricedStart(n *flow.Network, cands []flow.Candidate) (*pricedStart, error) {
-	price := int64(1)
-	var err error
-	for _, r := range n.Rate {
-		if price, err = flow.AddChecked(price, max(r, -r)); err != nil {
-			return nil, nil
-		}
-	}
-	for _, c := range cands {
-		if c.Lower > 0 {
-			return nil, nil
-		}
-		if price, err = flow.AddChecked(price, max(c.Rate, -c.Rate)); err != nil {
-			return nil, nil
-		}
-	}
-	ext, err := flow.WithShortfall(n, price, nil)
-	if err != nil {
-		return nil, nil // e.g. a node already named like the virtual one
-	}
-	sol, err := flow.Solve(ext, flow.SolveOptions{})
-	if err != nil || sol.Status != flow.Optimal {
-		return nil, nil
-	}
-	return &pricedStart{price: price, flow: sol.Flow}, nil
-}
-
-// try solves n with the candidates sub (indexes set) and priced unmet
-// demand, from the priced optimum plus nothing on the new lanes.
-func (ps *pricedStart) try(n *flow.Network, set []int, sub, cands []flow.Candidate) (trial, error) {
-	m := n.NumLanes()
-	ext, err := flow.WithShortfall(n.WithLanes(sub), ps.price, nil)
-	if err != nil {
-		return trial{}, err
-	}
-	start := make([]int64, ext.NumLanes())
-	copy(start, ps.flow[:m])
-	copy(start[m+len(sub):], ps.flow[m:])
-	sol, err := flow.Solve(ext, flow.SolveOptions{Start: start})
-	if err != nil {
-		return trial{}, err
+// try solves the network with the candidates of set (increasing indexes).
+func (sv *setSolver) try(set []int) (trial, error) {
+	n, m := sv.n, sv.n.NumLanes()
+	sub := make([]flow.Candidate, len(set))
+	for i, k := range set {
+		sub[i] = sv.cands[k]
 	}
 	t := trial{set: set}
-	if sol.Status != flow.Optimal {
-		return t, fmt.Errorf("dual: the network with priced unmet demand has no optimum (%v)", sol.Status)
+	sv.x.Solves++
+	var used func(i int) int64
+	var cost flow.Wide
+	if sv.basis != nil {
+		add, err := sv.basis.Add(sub)
+		if err != nil {
+			return t, err
+		}
+		if add.Status == flow.Unbounded {
+			return t, fmt.Errorf("dual: with candidates added the cost falls without limit (a cycle without capacity)")
+		}
+		for k := 0; k < sv.unmet; k++ {
+			t.short += add.Flow(flow.LaneID(m + k))
+		}
+		if t.short > 0 {
+			return t, nil
+		}
+		t.added, cost = add, add.Cost
+		used = func(i int) int64 { return add.Extra[i] }
+	} else {
+		sol, err := flow.Solve(n.WithLanes(sub), flow.SolveOptions{})
+		if err != nil {
+			return t, err
+		}
+		switch sol.Status {
+		case flow.Unbounded:
+			return t, fmt.Errorf("dual: with candidates added the cost falls without limit (a cycle without capacity)")
+		case flow.Infeasible:
+			t.short = sol.Shortfall
+			return t, nil
+		}
+		t.flow, cost = sol.Flow, sol.Cost
+		used = func(i int) int64 { return sol.Flow[m+i] }
 	}
-	for _, q := range sol.Flow[m+len(sub):] {
-		t.short += q
-	}
-	if t.short > 0 {
-		return t, nil
-	}
-	// Nothing unmet: the plan is feasible for n with the candidates, and
-	// its cost is the routing cost alone.
-	sol.Flow = sol.Flow[:m+len(sub)]
-	t.sol, t.ok, t.total = sol, true, sol.Cost
+	t.ok, t.total = true, cost
 	for i, k := range set {
-		if sol.Flow[m+i] > 0 {
-			if t.total, err = t.total.Add(flow.WideFrom(cands[k].Fixed)); err != nil {
+		if used(i) > 0 {
+			var err error
+			if t.total, err = t.total.Add(flow.WideFrom(sv.cands[k].Fixed)); err != nil {
 				return t, fmt.Errorf("dual: total cost %w", err)
 			}
 		}
@@ -366,58 +342,78 @@ func (ps *pricedStart) try(n *flow.Network, set []int, sub, cands []flow.Candida
 	return t, nil
 }
 
-// hopeless marks the candidates that cannot improve on the network alone
-// when added on their own, from the cut (infeasible network) or the
-// break-even rate over the residual network of the optimal plan (feasible).
-func (x *Extension) hopeless(n *flow.Network, base *flow.Solution, cands []flow.Candidate) ([]bool, error) {
-	out := make([]bool, len(cands))
-	if base.Status == flow.Infeasible {
-		cut, err := flow.FindCut(n)
-		if err != nil || cut == nil || cut.Hold {
-			return out, err
-		}
-		in := make([]bool, n.NumNodes())
-		for _, v := range cut.Region {
-			in[v] = true
-		}
-		for i, c := range cands {
-			room := c.Upper == flow.NoLimit || c.Upper >= cut.Short
-			out[i] = in[c.Tail] || !in[c.Head] || !room
-		}
-		return out, nil
+// better reports whether t beats the best so far (lower total; on a tie,
+// fewer lanes).
+func (sv *setSolver) better(t trial) bool {
+	b := sv.best
+	return t.ok && (!b.ok || t.total.Cmp(b.total) < 0 || (t.total.Cmp(b.total) == 0 && len(t.set) < len(b.set)))
+}
+
+// consider makes t the best when it is better, reading its plan before the
+// next solve replaces it, and returns t.
+func (sv *setSolver) consider(t trial) trial {
+	if !sv.better(t) {
+		return t
 	}
-	a, err := Check(n, base.Flow)
+	m := sv.n.NumLanes()
+	switch {
+	case t.added != nil:
+		p := t.added.Plan()
+		t.plan = append(p[:m:m], p[m+sv.unmet:]...)
+	case t.flow != nil:
+		t.plan = t.flow
+	}
+	t.added, t.flow = nil, nil
+	sv.best = t
+	return t
+}
+
+// pricedBasis solves n with unmet demand priced at one more than the sum of
+// all |rates| (lanes and candidates), so that every optimum leaves the least
+// possible demand unmet, and keeps its basis; unmet is the number of unmet
+// lanes (after n's lanes). It returns a nil basis (no error) when the price
+// or the costs would overflow, a candidate has a minimum, or the priced
+// network has no optimum (minimums): Extend then solves each set from
+// scratch.
+func pricedBasis(n *flow.Network, cands []flow.Candidate) (*flow.Basis, int, error) {
+	if hasMinimum(cands) {
+		return nil, 0, nil
+	}
+	price := int64(1)
+	var err error
+	for _, r := range n.Rate {
+		if price, err = flow.AddChecked(price, max(r, -r)); err != nil {
+			return nil, 0, nil
+		}
+	}
+	for _, c := range cands {
+		if price, err = flow.AddChecked(price, max(c.Rate, -c.Rate)); err != nil {
+			return nil, 0, nil
+		}
+	}
+	ext, err := flow.WithShortfall(n, price, nil)
 	if err != nil {
-		return nil, err
+		return nil, 0, nil // e.g. a node already named like the virtual one
 	}
-	pr, err := newPricer(n, base.Flow, a.Potential)
-	if err != nil {
-		return nil, err
+	sol, err := flow.Solve(ext, flow.SolveOptions{Keep: true})
+	if err != nil || sol.Status != flow.Optimal {
+		return nil, 0, nil
 	}
-	for i, c := range cands {
-		if c.Lower > 0 {
-			continue
-		}
-		be, ok, err := pr.breakEven(c.Tail, c.Head)
-		if err != nil {
-			return nil, err
-		}
-		out[i] = !ok || c.Rate >= be
-	}
-	return out, nil
+	return sol.Basis, ext.NumLanes() - n.NumLanes(), nil
 }
 
 // bound solves the linear relaxation of the fixed-charge problem: every
 // candidate open, its rate raised by floor(fixed / most it can carry).
-func (x *Extension) bound(n *flow.Network, cands []flow.Candidate) error {
+func (sv *setSolver) bound() error {
+	n, x := sv.n, sv.x
 	var supply int64
 	for _, b := range n.Supply {
 		if b > 0 {
 			supply += b
 		}
 	}
-	relaxed := make([]flow.Candidate, len(cands))
-	for i, c := range cands {
+	relaxed := make([]flow.Candidate, len(sv.cands))
+	for i, c := range sv.cands {
 		most := c.Upper
 		if most == flow.NoLimit || most > supply {
 			most = supply
@@ -431,8 +427,25 @@ func (x *Extension) bound(n *flow.Network, cands []flow.Candidate) error {
 		}
 		relaxed[i] = c
 	}
-	sol, err := flow.Solve(n.WithLanes(relaxed), flow.SolveOptions{})
 	x.Solves++
+	if sv.basis != nil {
+		add, err := sv.basis.Add(relaxed)
+		if err != nil {
+			return err
+		}
+		if add.Status != flow.Optimal {
+			return nil
+		}
+		m := n.NumLanes()
+		for k := 0; k < sv.unmet; k++ {
+			if add.Flow(flow.LaneID(m+k)) > 0 {
+				return nil // even every candidate leaves demand unmet
+			}
+		}
+		x.Bound, x.HasBound = add.Cost, true
+		return nil
+	}
+	sol, err := flow.Solve(n.WithLanes(relaxed), flow.SolveOptions{})
 	if err != nil {
 		return err
 	}

@@ -49,6 +49,31 @@ func bruteTotal(t *testing.T, n *flow.Network, cs []flow.Candidate) float64 {
 	return best
 }
 
+// bruteSingle returns the least total over the network alone and the
+// network with one candidate added, where a candidate's fixed cost counts
+// (the total is then the optimum with it plus its fixed cost, or the
+// network alone when that is cheaper): gonum's LP simplex
+// (internal/oracle) solves each.
+func bruteSingle(t *testing.T, n *flow.Network, cs []flow.Candidate) float64 {
+	t.Helper()
+	scale := math.Pow10(n.QtyPlaces + n.RatePlaces)
+	solve := func(sub []flow.Candidate) float64 {
+		res, err := oracle.MinCost(n.WithLanes(sub))
+		if err != nil {
+			t.Fatal(err)
+		}
+		if res.Status != oracle.Optimal {
+			return math.Inf(1)
+		}
+		return res.CostScaled / scale
+	}
+	best := solve(nil)
+	for _, c := range cs {
+		best = math.Min(best, solve([]flow.Candidate{c})+float64(c.Fixed)/scale)
+	}
+	return best
+}
+
 // TestExtendAgainstBruteForce: on small networks (infeasible ones among
 // them) the chosen lanes give a feasible plan costing what Extend says, no
 // single lane or pair does better (brute force with the LP oracle), and
@@ -105,6 +130,18 @@ func TestExtendAgainstBruteForce(t *testing.T) {
 		x, err := dual.Extend(n, cs, dual.ExtendOptions{})
 		if err != nil {
 			t.Fatalf("case %d: %v", i, err)
+		}
+		// The best single lane is exact.
+		one, err := dual.Extend(n, cs, dual.ExtendOptions{SinglesOnly: true})
+		if err != nil {
+			t.Fatalf("case %d: singles: %v", i, err)
+		}
+		if ws := bruteSingle(t, n, cs); !one.Feasible {
+			if !math.IsInf(ws, 1) {
+				t.Fatalf("case %d: no single lane found, brute force finds %v", i, ws)
+			}
+		} else if got := float64(one.Cost.Big().Int64()) / math.Pow10(n.QtyPlaces+n.RatePlaces); !one.Exact || len(one.Chosen) > 1 || math.Abs(got-ws) > 1e-6*math.Max(1, math.Abs(ws)) {
+			t.Fatalf("case %d: best single %v (exact %v, %d lanes), brute force %v", i, got, one.Exact, len(one.Chosen), ws)
 		}
 		want := bruteTotal(t, n, cs)
 		scale := math.Pow10(n.QtyPlaces + n.RatePlaces)

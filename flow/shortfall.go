@@ -4,6 +4,8 @@ import (
 	"fmt"
 	"math"
 	"slices"
+	"strconv"
+	"strings"
 )
 
 // UnmetNode is the name of the virtual origin added by WithShortfall.
@@ -98,10 +100,18 @@ func WithShortfall(n *Network, price int64, prices []int64) (*Network, error) {
 		QtyPlaces:  n.QtyPlaces,
 		RatePlaces: n.RatePlaces,
 	}
-	names := make(map[string]bool, m)
-	for a := 0; a < m; a++ {
-		ext.LaneNames[a] = n.LaneName(LaneID(a))
-		names[ext.LaneNames[a]] = true
+	// Only names with the virtual lanes' prefix can clash; numbered lanes
+	// (no names) get their numbers as substrings of one string.
+	names := map[string]bool{}
+	if n.LaneNames != nil {
+		copy(ext.LaneNames, n.LaneNames)
+		for _, name := range n.LaneNames {
+			if strings.HasPrefix(name, UnmetLanePrefix) {
+				names[name] = true
+			}
+		}
+	} else {
+		numberNames(ext.LaneNames[:m])
 	}
 	u := NodeID(nv)
 	for _, v := range dests {
@@ -124,6 +134,23 @@ func WithShortfall(n *Network, price int64, prices []int64) (*Network, error) {
 	ext.Extra = extendExtra(n.Extra, k)
 	ext.NodeExtra = extendExtra(n.NodeExtra, 1)
 	return ext, nil
+}
+
+// numberNames sets names[a] to the number a+1, all as substrings of one
+// string (one allocation).
+func numberNames(names []string) {
+	var buf []byte
+	ends := make([]int, len(names))
+	for a := range names {
+		buf = strconv.AppendInt(buf, int64(a)+1, 10)
+		ends[a] = len(buf)
+	}
+	all := string(buf)
+	start := 0
+	for a, e := range ends {
+		names[a] = all[start:e]
+		start = e
+	}
 }
 
 // extendExtra copies x and appends rows empty rows; nil stays nil.

@@ -59,6 +59,10 @@ type SolveOptions struct {
 	// counted but not reported. The cost is kept up to date per pivot
 	// (flow moved times reduced cost), not recomputed.
 	Progress func(pivots int64, cost Wide)
+	// Keep asks for the final basis in Solution.Basis (when Optimal), to
+	// re-solve with lanes added (Basis.Add). The solver's state is then
+	// kept alive with the Solution.
+	Keep bool
 }
 
 // Solution is the result of Solve.
@@ -95,6 +99,8 @@ type Solution struct {
 	// bounds are always in the tree; tree lanes may also sit at a bound
 	// (degenerate tree).
 	InTree []bool
+	// Basis is the final basis when Optimal and SolveOptions.Keep was set.
+	Basis *Basis
 }
 
 // Arc states. An arc that is not in the tree is at its lower bound
@@ -146,6 +152,7 @@ type simplex struct {
 	na        int // all arcs
 	holdStart int // first hold arc
 	artStart  int // first artificial arc
+	artEnd    int // after the last artificial arc (arcs from artEnd on are lanes added by Basis.Add)
 	nNodes    int // nodes including H, excluding R
 	root      int32
 	hold      int32 // H, or -1
@@ -202,6 +209,11 @@ func (s *simplex) ends(a int32) (int32, int32) {
 		return s.tail[a], s.head[a]
 	}
 	return s.xsrc[int(a)-s.m], s.xtgt[int(a)-s.m]
+}
+
+// isArt reports whether arc a is artificial.
+func (s *simplex) isArt(a int32) bool {
+	return int(a) >= s.artStart && int(a) < s.artEnd
 }
 
 // capOf returns the capacity of arc a above its minimum.
@@ -445,7 +457,15 @@ func Solve(n *Network, opt SolveOptions) (*Solution, error) {
 		sol.Pivots = s.pivots
 		return sol, nil
 	}
-	return s.optimal(sol)
+	if sol, err = s.optimal(sol); err != nil {
+		return nil, err
+	}
+	if opt.Keep {
+		if sol.Basis, err = newBasis(s); err != nil {
+			return nil, err
+		}
+	}
+	return sol, nil
 }
 
 // sameShape reports whether n's arrays have the lengths n.Validate
@@ -503,6 +523,7 @@ func newSimplex(n *Network, hold bool, excess int64) (*simplex, error) {
 	s.artStart = m + nh
 	na := m + nh + nNodes
 	s.na = na
+	s.artEnd = na
 	s.tail, s.head, s.rate, s.cost, s.cap = n.Tail, n.Head, n.Rate, n.Rate, n.Upper
 	nx := nh + nNodes
 	s.xsrc = make([]int32, nx)
@@ -678,7 +699,7 @@ func (s *simplex) setCosts(real bool, artCost int64) {
 	for a := s.holdStart; a < s.artStart; a++ {
 		s.xcost[a-s.m] = 0
 	}
-	for a := s.artStart; a < s.na; a++ {
+	for a := s.artStart; a < s.artEnd; a++ {
 		s.xcost[a-s.m] = artCost
 	}
 	s.objOK = false
@@ -722,7 +743,7 @@ func (s *simplex) phaseOne() error {
 // |b'(v)|, and their sum was checked when the tree was built).
 func (s *simplex) artFlow() int64 {
 	var t int64
-	for a := s.artStart; a < s.na; a++ {
+	for a := s.artStart; a < s.artEnd; a++ {
 		t += s.flow[a]
 	}
 	return t
@@ -1063,7 +1084,7 @@ func (s *simplex) pivot(in int32, dir int8, r int64) (bool, error) {
 			}
 			top2 = u
 		}
-		if apex == s.root || int(in) >= s.artStart {
+		if apex == s.root || s.isArt(in) {
 			s.trackArtificial(in, dir, top1, top2, delta)
 		}
 		if s.objOK {
@@ -1092,7 +1113,7 @@ func (s *simplex) pivot(in int32, dir int8, r int64) (bool, error) {
 	}
 	out := pred[leave]
 	switch {
-	case s.artFixed && int(out) >= s.artStart:
+	case s.artFixed && s.isArt(out):
 		s.state[out] = stateTree // fixed from now on
 	case flow[out] == 0:
 		s.state[out] = stateLower
@@ -1115,7 +1136,7 @@ func (s *simplex) pivot(in int32, dir int8, r int64) (bool, error) {
 // artificial arcs on it are the entering arc and the tree arcs of the
 // nodes just below R (top1 on the first side, top2 on the second).
 func (s *simplex) trackArtificial(in int32, dir int8, top1, top2 int32, delta int64) {
-	if int(in) >= s.artStart {
+	if s.isArt(in) {
 		if dir > 0 {
 			s.artTotal += delta
 		} else {
@@ -2274,7 +2295,7 @@ func (s *simplex) setTree(tree []int32) {
 	s.treeSet = true
 	s.artFixed = true
 	s.cost = s.rate
-	for a := s.artStart; a < s.na; a++ {
+	for a := s.artStart; a < s.artEnd; a++ {
 		s.xcost[a-s.m] = 0
 	}
 }

@@ -116,7 +116,7 @@ func runExtend(o *extendOptions, s streams) error {
 	default:
 		return errors.New("no candidates: give --candidates (the network can meet its demands, so there is no short region to propose lanes for)")
 	}
-	x, err := dual.Extend(n, cands, dual.ExtendOptions{})
+	x, err := dual.Extend(n, cands, dual.ExtendOptions{Cut: cut, CutKnown: true})
 	if err != nil {
 		return err
 	}

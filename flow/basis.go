@@ -1,0 +1,271 @@
+package flow
+
+import (
+	"fmt"
+	"math"
+)
+
+// Basis is the optimal spanning-tree basis of a solved network, kept by
+// Solve when SolveOptions.Keep is set. Add re-solves the network with extra
+// lanes appended, starting from this basis: the extra lanes enter at zero
+// flow, so the basis stays a strongly feasible tree and the simplex goes on
+// from the optimum instead of rebuilding a tree from a plan.
+//
+// A Basis is not safe for concurrent use. It holds the network's lane
+// arrays (read in place): the network must not change while the Basis is
+// in use.
+type Basis struct {
+	s       *simplex // the optimal state; never changed after Solve
+	w       simplex  // working copy, reset by every Add
+	maxRate int64    // largest |rate| over the network's lanes
+	gen     uint64   // counts Add calls; Added values check it
+
+	// buffers of w, reused from call to call
+	flow, pot                                 []int64
+	state                                     []int8
+	parent, pred, thread, rthread, size, last []int32
+	up                                        []bool
+	xsrc, xtgt                                []int32
+	xcost, xcap                               []int64
+}
+
+// Added is the result of Basis.Add: the optimum of the network with the
+// extra lanes appended (lanes NumLanes()..NumLanes()+k-1 of the extended
+// network are the extras, in order).
+type Added struct {
+	// Status is Optimal or Unbounded (a network that had an optimum stays
+	// feasible when lanes are added).
+	Status Status
+	// Cost is the total cost of the plan (cost scale QtyPlaces+RatePlaces);
+	// valid when Optimal.
+	Cost Wide
+	// Extra holds the flows on the extra lanes, in order; valid when
+	// Optimal.
+	Extra []int64
+	// Cycle, when Unbounded, is a cycle of lanes without capacity whose
+	// rates sum to a negative number (lane numbers of the extended network).
+	Cycle []CycleStep
+	// Pivots is the number of pivots made from the kept basis.
+	Pivots int64
+
+	b   *Basis
+	s   *simplex // the state holding the plan: the kept one or b's copy
+	gen uint64
+}
+
+// newBasis keeps the optimal state s. O(|E|) for the largest rate.
+func newBasis(s *simplex) (*Basis, error) {
+	mr, err := maxAbsRate(s.rate)
+	if err != nil {
+		return nil, err
+	}
+	return &Basis{s: s, maxRate: mr}, nil
+}
+
+// Add solves the network with the extra lanes appended (their Tail, Head,
+// Rate and Upper; Lower must be 0 and ID, Fixed, Same and Line are not
+// read), starting from the kept optimal basis with nothing on the extras.
+// The Basis itself is not changed, so Add may be called once per candidate
+// set; the returned Added is valid until the next call of Add.
+//
+// When no extra lane has a negative reduced cost against the kept
+// potentials the kept plan stays optimal and nothing is copied. Otherwise
+// the state is copied (O(|V|+|E|), a memory copy) and the simplex runs
+// from it: typically a few pivots and one pass over the lanes to prove
+// optimality.
+func (b *Basis) Add(extra []Candidate) (*Added, error) {
+	b.gen++
+	s := b.s
+	mr := b.maxRate
+	for i, c := range extra {
+		if c.Lower != 0 {
+			return nil, fmt.Errorf("flow: add lanes: extra lane %d has a minimum (%d); only lanes starting at zero flow can be added to a basis", i+1, c.Lower)
+		}
+		if c.Upper < 0 {
+			return nil, fmt.Errorf("flow: add lanes: extra lane %d has a negative capacity", i+1)
+		}
+		if int(c.Tail) < 0 || int(c.Tail) >= len(s.net.Nodes) || int(c.Head) < 0 || int(c.Head) >= len(s.net.Nodes) {
+			return nil, fmt.Errorf("flow: add lanes: extra lane %d joins a node outside the network", i+1)
+		}
+		if c.Rate == math.MinInt64 {
+			return nil, fmt.Errorf("flow: add lanes: extra lane %d rate: %w", i+1, ErrOverflow)
+		}
+		mr = max(mr, abs64(c.Rate))
+	}
+	if int64(s.na)+int64(len(extra)) > math.MaxInt32 {
+		return nil, fmt.Errorf("flow: add lanes: %d lanes exceed the solver's int32 indices: %w", s.na+len(extra), ErrOverflow)
+	}
+	checked := s.checked || needChecks(int64(s.nNodes), mr)
+	out := &Added{Status: Optimal, Extra: make([]int64, len(extra)), b: b, s: s, gen: b.gen}
+	// Any extra lane eligible to enter? (Zero flow: eligible when its
+	// reduced cost is negative and it has room.)
+	eligible := false
+	for _, c := range extra {
+		if c.Upper == 0 {
+			continue
+		}
+		r, err := AddChecked(c.Rate, s.pot[c.Tail])
+		if err == nil {
+			r, err = SubChecked(r, s.pot[c.Head])
+		}
+		if err != nil || r < 0 {
+			eligible = true
+			break
+		}
+	}
+	if !eligible {
+		if err := b.keptCost(out); err != nil {
+			return nil, err
+		}
+		return out, nil
+	}
+	w := b.reset(extra)
+	w.checked = checked
+	unb, err := w.run()
+	if err != nil {
+		return nil, err
+	}
+	out.s, out.Pivots = w, w.pivots
+	m := s.m
+	lane := func(a int32) LaneID {
+		if int(a) < m {
+			return LaneID(a)
+		}
+		return LaneID(m + int(a) - s.na)
+	}
+	if unb {
+		out.Status = Unbounded
+		for _, st := range w.cycle {
+			out.Cycle = append(out.Cycle, CycleStep{Lane: lane(int32(st.Lane)), Forward: st.Forward})
+		}
+		out.Extra = nil
+		return out, nil
+	}
+	for i := range extra {
+		out.Extra[i] = w.flow[s.na+i]
+	}
+	if w.objOK {
+		out.Cost = w.obj
+		return out, nil
+	}
+	c, err := totalCost(s.rate, w.flow[:m])
+	if err != nil {
+		return nil, err
+	}
+	if s.shifted {
+		lc, err := totalCost(s.rate, s.net.Lower)
+		if err == nil {
+			c, err = c.Add(lc)
+		}
+		if err != nil {
+			return nil, err
+		}
+	}
+	for i, e := range extra {
+		if c, err = c.Add(MulWide(e.Rate, out.Extra[i])); err != nil {
+			return nil, fmt.Errorf("flow: add lanes: total cost: %w", err)
+		}
+	}
+	out.Cost = c
+	return out, nil
+}
+
+// keptCost sets out.Cost to the kept optimum's cost.
+func (b *Basis) keptCost(out *Added) error {
+	s := b.s
+	if s.objOK {
+		out.Cost = s.obj
+		return nil
+	}
+	c, err := totalCost(s.rate, s.flow[:s.m])
+	if err == nil && s.shifted {
+		var lc Wide
+		if lc, err = totalCost(s.rate, s.net.Lower); err == nil {
+			c, err = c.Add(lc)
+		}
+	}
+	out.Cost = c
+	return err
+}
+
+// reset copies the kept state into the working copy and appends the extra
+// lanes as arcs na..na+k-1 at zero flow.
+func (b *Basis) reset(extra []Candidate) *simplex {
+	s, w := b.s, &b.w
+	*w = *s
+	k := len(extra)
+	b.flow = append(append(b.flow[:0], s.flow...), make([]int64, k)...)
+	b.state = append(b.state[:0], s.state...)
+	for _, c := range extra {
+		st := stateLower
+		if c.Upper == 0 {
+			st = stateTree // fixed
+		}
+		b.state = append(b.state, st)
+	}
+	b.pot = append(b.pot[:0], s.pot...)
+	b.parent = append(b.parent[:0], s.parent...)
+	b.pred = append(b.pred[:0], s.pred...)
+	b.thread = append(b.thread[:0], s.thread...)
+	b.rthread = append(b.rthread[:0], s.rthread...)
+	b.size = append(b.size[:0], s.size...)
+	b.last = append(b.last[:0], s.last...)
+	b.up = append(b.up[:0], s.up...)
+	b.xsrc = append(b.xsrc[:0], s.xsrc...)
+	b.xtgt = append(b.xtgt[:0], s.xtgt...)
+	b.xcost = append(b.xcost[:0], s.xcost...)
+	b.xcap = append(b.xcap[:0], s.xcap...)
+	for _, c := range extra {
+		b.xsrc = append(b.xsrc, c.Tail)
+		b.xtgt = append(b.xtgt, c.Head)
+		b.xcost = append(b.xcost, c.Rate)
+		cp := c.Upper
+		if cp == NoLimit {
+			cp = inf
+		}
+		b.xcap = append(b.xcap, cp)
+	}
+	w.flow, w.state, w.pot = b.flow, b.state, b.pot
+	w.parent, w.pred, w.thread, w.rthread = b.parent, b.pred, b.thread, b.rthread
+	w.size, w.last, w.up = b.size, b.last, b.up
+	w.xsrc, w.xtgt, w.xcost, w.xcap = b.xsrc, b.xtgt, b.xcost, b.xcap
+	w.na = s.na + k
+	w.pivots = 0
+	w.progress = nil
+	w.cycle = nil
+	return w
+}
+
+// Flow returns the flow on lane a of the extended network (the network's
+// lanes, then the extras) in the plan found. It panics when a later Add has
+// replaced the plan.
+func (r *Added) Flow(a LaneID) int64 {
+	if r.gen != r.b.gen {
+		panic("flow: Added.Flow called after a later Basis.Add")
+	}
+	s := r.s
+	m := s.m
+	if int(a) < m {
+		if s.shifted {
+			return s.flow[a] + s.net.Lower[a]
+		}
+		return s.flow[a]
+	}
+	return r.Extra[int(a)-m]
+}
+
+// Plan returns a copy of the plan found over the extended network (the
+// network's lanes, then the extras). It panics when a later Add has
+// replaced the plan. O(|E|).
+func (r *Added) Plan() []int64 {
+	if r.gen != r.b.gen {
+		panic("flow: Added.Plan called after a later Basis.Add")
+	}
+	m := r.s.m
+	out := make([]int64, m+len(r.Extra))
+	for a := 0; a < m; a++ {
+		out[a] = r.Flow(LaneID(a))
+	}
+	copy(out[m:], r.Extra)
+	return out
+}

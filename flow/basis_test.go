@@ -1,0 +1,169 @@
+package flow_test
+
+import (
+	"fmt"
+	"math/big"
+	"math/rand/v2"
+	"testing"
+
+	"lanecert/flow"
+	"lanecert/internal/certcheck"
+	"lanecert/internal/oracle"
+	"lanecert/internal/randnet"
+)
+
+// randomExtras draws k extra lanes between random nodes of n (no minimum;
+// some without capacity, some with capacity 0; rates from 0 to 20, and when
+// neg from -3, half of them negative lanes without capacity).
+func randomExtras(rng *rand.Rand, n *flow.Network, k int, neg bool) []flow.Candidate {
+	nv := len(n.Nodes)
+	out := make([]flow.Candidate, k)
+	for i := range out {
+		c := flow.Candidate{Tail: flow.NodeID(rng.IntN(nv)), Head: flow.NodeID(rng.IntN(nv)), Rate: rng.Int64N(21)}
+		if neg {
+			c.Rate -= 3
+		}
+		switch rng.IntN(5) {
+		case 0:
+			c.Upper = flow.NoLimit
+		case 1:
+			c.Upper = 0
+		default:
+			c.Upper = 1 + rng.Int64N(30)
+		}
+		if neg && rng.IntN(2) == 0 {
+			c.Upper, c.Rate = flow.NoLimit, -1-rng.Int64N(5) // may close a cycle of negative cost without limit
+		}
+		out[i] = c
+	}
+	return out
+}
+
+// TestBasisAddRandom re-solves random networks with random extra lanes from
+// the kept basis and checks each answer against gonum's LP simplex on the
+// extended network (internal/oracle, an independent method): same status,
+// same optimal cost, a plan that is feasible for the extended network
+// (internal/certcheck) and costs what Add reports. The Basis must not change
+// between calls: the same extras asked twice give the same answer.
+func TestBasisAddRandom(t *testing.T) {
+	rng := rand.New(rand.NewPCG(20261202, 7))
+	tried, moved, unbounded := 0, 0, 0
+	for i := 0; i < 400; i++ {
+		o := randnet.RandomOptions(rng)
+		n := randnet.Network(rng, o)
+		sol, err := flow.Solve(n, flow.SolveOptions{Keep: true})
+		if err != nil {
+			t.Fatalf("case %d: %v", i, err)
+		}
+		if sol.Status != flow.Optimal {
+			if sol.Basis != nil {
+				t.Fatalf("case %d: basis kept for a %v solve", i, sol.Status)
+			}
+			continue
+		}
+		if sol.Basis == nil {
+			t.Fatalf("case %d: no basis kept", i)
+		}
+		for j := 0; j < 4; j++ {
+			extra := randomExtras(rng, n, 1+rng.IntN(3), j == 3)
+			ext := n.WithLanes(extra)
+			name := fmt.Sprintf("case %d.%d (%d nodes, %d lanes, extras %+v)", i, j, len(n.Nodes), len(n.Tail), extra)
+			got, err := sol.Basis.Add(extra)
+			if err != nil {
+				t.Fatalf("%s: %v", name, err)
+			}
+			res, err := oracle.MinCost(ext)
+			if err != nil {
+				t.Fatalf("%s: oracle: %v", name, err)
+			}
+			tried++
+			if got.Status.String() != res.Status.String() {
+				t.Fatalf("%s: status %v, oracle %v", name, got.Status, res.Status)
+			}
+			if got.Status == flow.Unbounded {
+				unbounded++
+				checkCycle(t, ext, got.Cycle)
+				continue
+			}
+			if !oracle.SameCost(got.Cost, n.QtyPlaces+n.RatePlaces, res) {
+				t.Fatalf("%s: cost %s, oracle %g", name, got.Cost.Format(0), res.CostScaled)
+			}
+			plan := got.Plan()
+			if err := certcheck.Feasible(ext, plan); err != nil {
+				t.Fatalf("%s: plan not feasible: %v", name, err)
+			}
+			if c := planCost(ext, plan); c.String() != got.Cost.Format(0) {
+				t.Fatalf("%s: plan costs %s, Add says %s", name, c, got.Cost.Format(0))
+			}
+			for k := range extra {
+				if plan[len(n.Tail)+k] != got.Extra[k] || got.Flow(flow.LaneID(len(n.Tail)+k)) != got.Extra[k] {
+					t.Fatalf("%s: extra %d flow %d, plan says %d", name, k, got.Extra[k], plan[len(n.Tail)+k])
+				}
+			}
+			if got.Cost.Cmp(sol.Cost) != 0 {
+				moved++
+			}
+			again, err := sol.Basis.Add(extra)
+			if err != nil || again.Cost.Cmp(got.Cost) != 0 || again.Pivots != got.Pivots {
+				t.Fatalf("%s: second Add differs: %v", name, err)
+			}
+		}
+	}
+	t.Logf("%d extra sets, %d lowered the cost, %d unbounded", tried, moved, unbounded)
+	if moved < 50 || unbounded < 5 {
+		t.Errorf("only %d cost changes and %d unbounded cases: the test no longer covers them", moved, unbounded)
+	}
+}
+
+// planCost is Σ rate·flow in big integers.
+func planCost(n *flow.Network, x []int64) *big.Int {
+	c := new(big.Int)
+	for a, r := range n.Rate {
+		c.Add(c, new(big.Int).Mul(big.NewInt(r), big.NewInt(x[a])))
+	}
+	return c
+}
+
+// TestBasisAddStale checks that a plan read after a later Add panics
+// instead of answering for the wrong lanes.
+func TestBasisAddStale(t *testing.T) {
+	n := build([]int64{5, -5}, [][5]int64{{0, 1, 0, noLimit, 10}})
+	sol, err := flow.Solve(n, flow.SolveOptions{Keep: true})
+	if err != nil || sol.Basis == nil {
+		t.Fatalf("solve: %v", err)
+	}
+	first, err := sol.Basis.Add([]flow.Candidate{{Tail: 0, Head: 1, Rate: 4, Upper: 3}})
+	if err != nil {
+		t.Fatal(err)
+	}
+	if first.Extra[0] != 3 || first.Cost.Cmp(flow.WideFrom(3*4+2*10)) != 0 {
+		t.Fatalf("first add: extra %v cost %s", first.Extra, first.Cost.Format(0))
+	}
+	if _, err := sol.Basis.Add(nil); err != nil {
+		t.Fatal(err)
+	}
+	defer func() {
+		if recover() == nil {
+			t.Fatal("reading a replaced plan did not panic")
+		}
+	}()
+	first.Flow(0)
+}
+
+// TestBasisAddErrors checks the refused extras.
+func TestBasisAddErrors(t *testing.T) {
+	n := build([]int64{5, -5}, [][5]int64{{0, 1, 0, noLimit, 10}})
+	sol, err := flow.Solve(n, flow.SolveOptions{Keep: true})
+	if err != nil {
+		t.Fatal(err)
+	}
+	for _, c := range []flow.Candidate{
+		{Tail: 0, Head: 1, Rate: 1, Lower: 1, Upper: 2},
+		{Tail: 0, Head: 2, Rate: 1, Upper: 2},
+		{Tail: 0, Head: 1, Rate: 1, Upper: -1},
+	} {
+		if _, err := sol.Basis.Add([]flow.Candidate{c}); err == nil {
+			t.Errorf("extra %+v accepted", c)
+		}
+	}
+}
