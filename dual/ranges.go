@@ -1,9 +1,7 @@
 package dual
 
 import (
-	"cmp"
 	"fmt"
-	"slices"
 	"sort"
 
 	"lanecert/flow"
@@ -199,7 +197,37 @@ func (r *ranger) buildEdges() error {
 		arc      int32
 		fwd      bool
 	}
-	var es []edge
+	// Count first, so that both lists are allocated once at their size.
+	nInner, nOuter := 0, 0
+	for e, na := 0, g.numArcs(); e < na; e++ {
+		lo, hi, x, _ := g.arc(e)
+		if lo == hi || r.isForestArc(e) {
+			continue
+		}
+		d := 0
+		if x < hi {
+			d++
+		}
+		if x > lo {
+			d++
+		}
+		if g.comp[g.tail(e)] == g.comp[g.head(e)] {
+			nInner += d
+		} else {
+			nOuter += d
+		}
+	}
+	// Edges inside one piece only matter for lanes of that piece (covering,
+	// below); searches over pieces use the edges between pieces.
+	r.inner = make([]innerEdge, 0, nInner)
+	es := make([]edge, 0, nOuter)
+	add := func(t, h int32, w int64, e int, fwd bool) {
+		if g.comp[t] == g.comp[h] {
+			r.inner = append(r.inner, innerEdge{from: t, to: h, w: w, arc: int32(e)})
+		} else {
+			es = append(es, edge{t, h, w, int32(e), fwd})
+		}
+	}
 	for e, na := 0, g.numArcs(); e < na; e++ {
 		lo, hi, x, _ := g.arc(e)
 		if lo == hi || r.isForestArc(e) {
@@ -214,7 +242,7 @@ func (r *ranger) buildEdges() error {
 			if w < 0 {
 				return fmt.Errorf("%w: potentials are not valid for the plan (lane %d)", ErrInternal, e)
 			}
-			es = append(es, edge{t, h, w, int32(e), true})
+			add(t, h, w, e, true)
 		}
 		if x > lo {
 			w, err := r.reducedDir(e, false)
@@ -224,24 +252,8 @@ func (r *ranger) buildEdges() error {
 			if w < 0 {
 				return fmt.Errorf("%w: potentials are not valid for the plan (lane %d)", ErrInternal, e)
 			}
-			es = append(es, edge{h, t, w, int32(e), false})
+			add(h, t, w, e, false)
 		}
-	}
-	// Edges inside one piece only matter for lanes of that piece (covering,
-	// below); searches over pieces use the edges between pieces.
-	var inner []edge
-	outer := es[:0]
-	for _, e := range es {
-		if g.comp[e.from] == g.comp[e.to] {
-			inner = append(inner, e)
-		} else {
-			outer = append(outer, e)
-		}
-	}
-	es = outer
-	r.inner = make([]innerEdge, len(inner))
-	for i, e := range inner {
-		r.inner[i] = innerEdge{from: e.from, to: e.to, w: e.w, arc: e.arc}
 	}
 	k := r.k
 	r.start = make([]int32, k+1)
@@ -390,31 +402,47 @@ type innerEdge struct {
 	arc      int32
 }
 
+// orderByWeight returns the indexes of es in increasing order of w, ties in
+// index order: a least-significant-digit radix sort on the bytes the
+// largest w needs (w >= 0). O(b·(|es| + 256)) for b such bytes.
+func orderByWeight(es []innerEdge) []int32 {
+	order := make([]int32, len(es))
+	for i := range order {
+		order[i] = int32(i)
+	}
+	var top int64
+	for _, e := range es {
+		top = max(top, e.w)
+	}
+	tmp := make([]int32, len(es))
+	var count [257]int
+	for shift := uint(0); shift < 64 && top>>shift != 0; shift += 8 {
+		count = [257]int{}
+		for _, i := range order {
+			count[int(byte(es[i].w>>shift))+1]++
+		}
+		for d := 0; d < 256; d++ {
+			count[d+1] += count[d]
+		}
+		for _, i := range order {
+			d := byte(es[i].w >> shift)
+			tmp[count[d]] = i
+			count[d]++
+		}
+		order, tmp = tmp, order
+	}
+	return order
+}
+
 // cover finds, for every forest arc, the cheapest inner edge crossing the
 // cut it makes in each direction: edges in order of reduced cost mark the
 // tree paths they cross, each tree node once (jump pointers skip nodes
-// already marked). O(|E| log |E| + |V|).
+// already marked), until every forest arc is covered. O(|E| + |V|)
+// (radix sort on the reduced costs).
 func (r *ranger) cover() {
 	g := r.g
 	nv := g.numNodes()
-	type key struct {
-		w int64
-		i int32
-	}
-	keys := make([]key, len(r.inner))
-	for i, e := range r.inner {
-		keys[i] = key{e.w, int32(i)}
-	}
-	slices.SortFunc(keys, func(a, b key) int {
-		if a.w != b.w {
-			return cmp.Compare(a.w, b.w)
-		}
-		return cmp.Compare(a.i, b.i)
-	})
-	order := make([]int32, len(keys))
-	for j, k := range keys {
-		order[j] = k.i
-	}
+	order := orderByWeight(r.inner)
 	parentNode := func(v int32) int32 {
 		if e := g.parentArc[v]; e >= 0 {
 			return g.other(int(e), v)
@@ -437,7 +465,16 @@ func (r *ranger) cover() {
 			}
 			return v
 		}
+		left := 0 // forest arcs not yet covered
+		for v := 0; v < nv; v++ {
+			if g.parentArc[v] >= 0 {
+				left++
+			}
+		}
 		for _, i := range order {
+			if left == 0 {
+				break
+			}
 			e := r.inner[i]
 			u, w := e.from, e.to
 			if entering {
@@ -446,6 +483,7 @@ func (r *ranger) cover() {
 			for x := find(u); !isAnc(x, w); x = find(x) {
 				best[x], by[x] = e.w, e.arc
 				jump[x] = parentNode(x)
+				left--
 			}
 		}
 	}
@@ -746,6 +784,33 @@ func (h *pieceHeap) push(it pieceItem) {
 	*h = q
 }
 
+// init orders h as a heap. O(len(h)).
+func (h *pieceHeap) init() {
+	q := *h
+	for i := len(q)/2 - 1; i >= 0; i-- {
+		q.down(i)
+	}
+}
+
+// down moves q[i] down to its place.
+func (q pieceHeap) down(i int) {
+	n := len(q)
+	for {
+		c := 2*i + 1
+		if c >= n {
+			return
+		}
+		if c+1 < n && q[c+1].less(q[c]) {
+			c++
+		}
+		if !q[c].less(q[i]) {
+			return
+		}
+		q[i], q[c] = q[c], q[i]
+		i = c
+	}
+}
+
 func (h *pieceHeap) pop() pieceItem {
 	q := *h
 	top := q[0]
@@ -790,14 +855,13 @@ func (r *ranger) lanes(s *Sensitivity) error {
 		lane int
 		kind int8 // 0: break-even (h->t), 1: upper (t->h), 2: capacity value (h->t avoiding the lane)
 	}
-	bySource := map[int32][]query{}
-	var order []int32
-	add := func(src int32, q query) {
-		if _, ok := bySource[src]; !ok {
-			order = append(order, src)
-		}
-		bySource[src] = append(bySource[src], q)
+	// Queries by source piece, sources in order of first appearance.
+	type sourced struct {
+		src int32
+		q   query
 	}
+	var all []sourced
+	add := func(src int32, q query) { all = append(all, sourced{src, q}) }
 	var forest []int32 // lanes in use that are forest arcs
 	for e := 0; e < g.m; e++ {
 		lo, hi, x, rate := g.arc(e)
@@ -837,6 +901,31 @@ func (r *ranger) lanes(s *Sensitivity) error {
 	if err := r.forestRanges(forest, s); err != nil {
 		return err
 	}
+	var order []int32
+	slot := make([]int32, r.k) // per source piece: its place in order, or -1
+	for i := range slot {
+		slot[i] = -1
+	}
+	for _, a := range all {
+		if slot[a.src] < 0 {
+			slot[a.src] = int32(len(order))
+			order = append(order, a.src)
+		}
+	}
+	qStart := make([]int32, len(order)+1)
+	for _, a := range all {
+		qStart[slot[a.src]+1]++
+	}
+	for i := range order {
+		qStart[i+1] += qStart[i]
+	}
+	queries := make([]query, len(all))
+	fill := append([]int32(nil), qStart[:len(order)]...)
+	for _, a := range all {
+		j := slot[a.src]
+		queries[fill[j]] = a.q
+		fill[j]++
+	}
 	var hub *hubDist
 	if len(order) >= minHubSources {
 		var err error
@@ -845,8 +934,8 @@ func (r *ranger) lanes(s *Sensitivity) error {
 		}
 	}
 	var targets []int32
-	for _, src := range order {
-		qs := bySource[src]
+	for si, src := range order {
+		qs := queries[qStart[si]:qStart[si+1]]
 		targets = targets[:0]
 		distOnly := true
 		for _, q := range qs {
@@ -1544,15 +1633,29 @@ func (r *ranger) smallSide(bp *bigPiece, skip int32, l, end int, fromSub bool, b
 	}
 	// Backward, pred[v] is the edge entering the far side that v's route
 	// starts from.
+	// Seed the distances first and heap the seeded pieces once (no stale
+	// entries; the order of settling is the same).
 	for _, rg := range ranges {
 		for _, i := range posEdges[posStart[rg[0]]:posStart[rg[1]]] {
-			if v := ends[i]; v != skip {
-				if err := r.offerFrom(v, 0, r.w[i], i); err != nil {
-					return 0, -1, err
-				}
+			v := ends[i]
+			if v == skip {
+				continue
+			}
+			switch w := r.w[i]; {
+			case bound != unreached && w >= bound:
+				// Routes costing bound or more are not looked for.
+			case r.dist[v] == unreached:
+				r.touched = append(r.touched, v)
+				r.dist[v], r.pred[v] = w, i
+			case w < r.dist[v]:
+				r.dist[v], r.pred[v] = w, i
 			}
 		}
 	}
+	for _, v := range r.touched {
+		r.heap = append(r.heap, pieceItem{r.dist[v], v})
+	}
+	r.heap.init()
 	best, bestI := unreached, int32(-1)
 	for len(r.heap) > 0 {
 		it := r.heap.pop()
@@ -1595,12 +1698,31 @@ func (r *ranger) smallSide(bp *bigPiece, skip int32, l, end int, fromSub bool, b
 			}
 			break
 		}
+		// Pieces at bound or best or more would never be settled: they are
+		// not offered.
+		limit := bound
+		if best != unreached && (limit == unreached || best < limit) {
+			limit = best
+		}
 		for c := pg.start[u]; c < pg.start[u+1]; c++ {
-			if v := pg.to[c]; v != p && v != skip {
-				if err := r.offerFrom(v, it.d, pg.w[c], r.pred[u]); err != nil {
-					return 0, -1, err
-				}
+			v := pg.to[c]
+			if v == p || v == skip || r.settled[v] {
+				continue
 			}
+			nd, err := flow.AddChecked(it.d, pg.w[c])
+			if err != nil {
+				return 0, -1, fmt.Errorf("dual: route cost %w", err)
+			}
+			if limit != unreached && nd >= limit {
+				continue
+			}
+			if r.dist[v] == unreached {
+				r.touched = append(r.touched, v)
+			} else if nd >= r.dist[v] {
+				continue
+			}
+			r.dist[v], r.pred[v] = nd, r.pred[u]
+			r.heap.push(pieceItem{nd, v})
 		}
 	}
 	if best != unreached && bound != unreached && best >= bound {

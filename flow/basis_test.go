@@ -167,3 +167,28 @@ func TestBasisAddErrors(t *testing.T) {
 		}
 	}
 }
+
+// A plant ships 10 units to a customer over a lane at rate 7. A carrier
+// offers a direct lane at rate 5 for up to 4 units: re-solving from the kept
+// basis moves 4 units onto it.
+func ExampleBasis_Add() {
+	n := &flow.Network{
+		Nodes:  []string{"plant", "customer"},
+		Supply: []int64{10, -10},
+		Tail:   []flow.NodeID{0},
+		Head:   []flow.NodeID{1},
+		Lower:  []int64{0},
+		Upper:  []int64{flow.NoLimit},
+		Rate:   []int64{7},
+	}
+	sol, err := flow.Solve(n, flow.SolveOptions{Keep: true})
+	if err != nil {
+		panic(err)
+	}
+	add, err := sol.Basis.Add([]flow.Candidate{{Tail: 0, Head: 1, Rate: 5, Upper: 4}})
+	if err != nil {
+		panic(err)
+	}
+	fmt.Println(sol.Cost.Format(0), "->", add.Cost.Format(0), "with", add.Extra[0], "units on the new lane")
+	// Output: 70 -> 62 with 4 units on the new lane
+}
