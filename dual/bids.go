@@ -51,12 +51,17 @@ func EvaluateBids(n *flow.Network, y, p []int64, cost flow.Wide, cands []flow.Ca
 	}
 	out := make([]BidResult, len(cands))
 	ws := &warmSolver{n: n, y: y}
+	pairs := make([][2]flow.NodeID, len(cands))
+	for i, c := range cands {
+		pairs[i] = [2]flow.NodeID{c.Tail, c.Head}
+	}
+	bes, oks, err := pr.breakEvens(pairs)
+	if err != nil {
+		return nil, nil, err
+	}
 	for i, c := range cands {
 		br := &out[i]
-		be, ok, err := pr.breakEven(c.Tail, c.Head)
-		if err != nil {
-			return nil, nil, err
-		}
+		be, ok := bes[i], oks[i]
 		if ok {
 			br.BreakEven, br.HasBreakEven = be, true
 			if be > c.Rate {
@@ -167,31 +172,96 @@ func newPricer(n *flow.Network, y, p []int64) (*pricer, error) {
 	return &pricer{r: r}, nil
 }
 
-// breakEven returns the rate at or below which a new lane from t to h would
-// be used: minus the cost of the cheapest route from h back to t (ok false:
-// there is none).
-func (pr *pricer) breakEven(t, h flow.NodeID) (int64, bool, error) {
+// breakEvens returns, for each pair (tail, head), the rate at or below
+// which a new lane from tail to head would be used: minus the cost of the
+// cheapest route from head back to tail (ok false: there is none). One
+// search per distinct source piece (the head's) towards all its targets,
+// through the best-connected piece as a bound when there are many sources
+// (as for the ranges of unused lanes).
+func (pr *pricer) breakEvens(pairs [][2]flow.NodeID) ([]int64, []bool, error) {
 	r := pr.r
 	g := r.g
-	src, dst := g.comp[h], g.comp[t]
-	d := int64(0)
-	if src != dst {
-		if err := r.search([]int32{src}, []int32{dst}, split{child: -1}, -1, false); err != nil {
-			return 0, false, err
+	be, ok := make([]int64, len(pairs)), make([]bool, len(pairs))
+	// Pairs by source piece, sources in order of first appearance.
+	slot := make([]int32, r.k)
+	for i := range slot {
+		slot[i] = -1
+	}
+	var order []int32
+	for _, pq := range pairs {
+		src, dst := g.comp[pq[1]], g.comp[pq[0]]
+		if src != dst && slot[src] < 0 {
+			slot[src] = int32(len(order))
+			order = append(order, src)
 		}
-		if r.dist[dst] == unreached {
-			return 0, false, nil
+	}
+	start := make([]int32, len(order)+1)
+	for _, pq := range pairs {
+		if src, dst := g.comp[pq[1]], g.comp[pq[0]]; src != dst {
+			start[slot[src]+1]++
 		}
-		d = r.dist[dst]
 	}
-	be, err := flow.SubChecked(r.p[h], r.p[t])
-	if err == nil {
-		be, err = flow.SubChecked(be, d)
+	for i := range order {
+		start[i+1] += start[i]
 	}
-	if err != nil {
-		return 0, false, fmt.Errorf("dual: break-even rate %w", err)
+	idx := make([]int32, start[len(order)])
+	fill := append([]int32(nil), start[:len(order)]...)
+	for i, pq := range pairs {
+		if src, dst := g.comp[pq[1]], g.comp[pq[0]]; src != dst {
+			idx[fill[slot[src]]] = int32(i)
+			fill[slot[src]]++
+		}
 	}
-	return be, true, nil
+	set := func(i int, d int64) error {
+		t, h := pairs[i][0], pairs[i][1]
+		v, err := flow.SubChecked(r.p[h], r.p[t])
+		if err == nil {
+			v, err = flow.SubChecked(v, d)
+		}
+		if err != nil {
+			return fmt.Errorf("dual: break-even rate %w", err)
+		}
+		be[i], ok[i] = v, true
+		return nil
+	}
+	for i, pq := range pairs {
+		if g.comp[pq[1]] == g.comp[pq[0]] {
+			if err := set(i, 0); err != nil {
+				return nil, nil, err
+			}
+		}
+	}
+	var hub *hubDist
+	if len(order) >= minHubSources {
+		var err error
+		if hub, err = r.newHub(); err != nil {
+			return nil, nil, err
+		}
+	}
+	var targets []int32
+	for si, src := range order {
+		targets = targets[:0]
+		for _, i := range idx[start[si]:start[si+1]] {
+			targets = append(targets, g.comp[pairs[i][0]])
+		}
+		var err error
+		if hub != nil {
+			err = r.hubSearch(hub, src, targets)
+		} else {
+			err = r.search([]int32{src}, targets, split{child: -1}, -1, false)
+		}
+		if err != nil {
+			return nil, nil, err
+		}
+		for _, i := range idx[start[si]:start[si+1]] {
+			if d := r.dist[g.comp[pairs[i][0]]]; d != unreached {
+				if err := set(int(i), d); err != nil {
+					return nil, nil, err
+				}
+			}
+		}
+	}
+	return be, ok, nil
 }
 
 // solveWith solves n with the candidates added, starting from y (and 0 on
