@@ -67,9 +67,9 @@ func squeeze(n *flow.Network) (*flow.Network, []flow.NodeID) {
 }
 
 // candidatesInto draws k candidate lanes from random origins into the given
-// destinations, with capacities of 1 to 100 units and fixed costs (fixed
-// seed).
-func candidatesInto(n *flow.Network, dests []flow.NodeID, k int) []flow.Candidate {
+// destinations, with capacities of 1 to twice short units (about half of
+// them can restore feasibility alone) and fixed costs (fixed seed).
+func candidatesInto(n *flow.Network, dests []flow.NodeID, short int64, k int) []flow.Candidate {
 	rng := rand.New(rand.NewPCG(43, 8))
 	var origins []flow.NodeID
 	for v, b := range n.Supply {
@@ -80,7 +80,7 @@ func candidatesInto(n *flow.Network, dests []flow.NodeID, k int) []flow.Candidat
 	cs := make([]flow.Candidate, k)
 	for i := range cs {
 		cs[i] = flow.Candidate{ID: "t", Tail: origins[rng.IntN(len(origins))], Head: dests[rng.IntN(len(dests))],
-			Rate: 1 + rng.Int64N(1000), Upper: 1 + rng.Int64N(100), Fixed: rng.Int64N(20000), Same: -1}
+			Rate: 1 + rng.Int64N(1000), Upper: 1 + rng.Int64N(2*short), Fixed: rng.Int64N(20000), Same: -1}
 	}
 	return cs
 }
@@ -116,7 +116,11 @@ func BenchmarkSensitivityLarge(b *testing.B) {
 		})
 		squeezed, short := squeeze(n)
 		fixedCands := candidatesFor(n, 1000, true)
-		targeted := candidatesInto(n, short, 1000)
+		cut, err := flow.FindCut(squeezed)
+		if err != nil || cut == nil {
+			b.Fatal("squeezed network not short", err)
+		}
+		targeted := candidatesInto(n, short, cut.Short, 1000)
 		b.Run(c.name+"/cut", func(b *testing.B) {
 			for i := 0; i < b.N; i++ {
 				if _, err := flow.FindCut(squeezed); err != nil {

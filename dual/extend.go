@@ -31,8 +31,10 @@ type Extension struct {
 	Exact    bool
 	Bound    flow.Wide
 	HasBound bool
-	// Solves counts the network simplex runs.
+	// Solves counts the network simplex runs; Pruned the single lanes not
+	// solved because a lower bound showed they could not beat the best.
 	Solves int
+	Pruned int
 }
 
 // ExtendOptions tunes the search with fixed costs.
@@ -110,14 +112,14 @@ func Extend(n *flow.Network, cands []flow.Candidate, opt ExtendOptions) (*Extens
 		x.WasFeasible, x.BaseCost = true, base.Cost
 		sv.baseFlow, sv.basis = base.Flow, base.Basis
 	} else {
-		basis, unmet, err := pricedBasis(n, cands)
+		basis, unmet, cost, err := pricedBasis(n, cands)
 		if err != nil {
 			return nil, err
 		}
 		if basis != nil {
 			x.Solves++
 		}
-		sv.basis, sv.unmet = basis, unmet
+		sv.basis, sv.unmet, sv.base = basis, unmet, cost
 	}
 	all := make([]int, len(cands))
 	for i := range all {
@@ -148,10 +150,38 @@ func Extend(n *flow.Network, cands []flow.Candidate, opt ExtendOptions) (*Extens
 			}
 		}
 		singles := make([]trial, len(cands))
+		order := make([]int, 0, len(cands))
 		for i := range cands {
 			if hopeless[i] {
 				singles[i] = trial{set: []int{i}, short: -1}
 				continue
+			}
+			order = append(order, i)
+		}
+		// For the best single lane alone, lanes are solved in order of a
+		// lower bound on their total, and those whose bound cannot beat
+		// the best found are not solved.
+		var lb []singleBound
+		if opt.SinglesOnly && cut != nil && !cut.Hold && sv.basis != nil && sv.unmet > 0 {
+			var err error
+			if lb, err = sv.singleBounds(cut, order); err != nil {
+				return nil, err
+			}
+			sort.SliceStable(order, func(a, b int) bool {
+				la, lb := lb[order[a]], lb[order[b]]
+				if la.ok != lb.ok {
+					return !la.ok // no bound: solve first
+				}
+				return la.ok && la.total.Cmp(lb.total) < 0
+			})
+		}
+		for _, i := range order {
+			if lb != nil && lb[i].ok && sv.best.ok {
+				if c := lb[i].total.Cmp(sv.best.total); c > 0 || (c == 0 && !setLess([]int{i}, sv.best.set)) {
+					singles[i] = trial{set: []int{i}, short: -1}
+					x.Pruned++
+					continue
+				}
 			}
 			t, err := sv.try([]int{i})
 			if err != nil {
@@ -284,6 +314,7 @@ type setSolver struct {
 	x        *Extension
 	basis    *flow.Basis
 	unmet    int
+	base     flow.Wide // the priced optimum's cost (with unmet lanes)
 	baseFlow []int64
 	best     trial
 }
@@ -346,7 +377,126 @@ func (sv *setSolver) try(set []int) (trial, error) {
 // fewer lanes).
 func (sv *setSolver) better(t trial) bool {
 	b := sv.best
-	return t.ok && (!b.ok || t.total.Cmp(b.total) < 0 || (t.total.Cmp(b.total) == 0 && len(t.set) < len(b.set)))
+	if !t.ok {
+		return false
+	}
+	if !b.ok {
+		return true
+	}
+	if c := t.total.Cmp(b.total); c != 0 {
+		return c < 0
+	}
+	return setLess(t.set, b.set)
+}
+
+// setLess orders sets of candidates: fewer lanes first, then by their
+// indexes (lexicographically), so that ties between totals are broken the
+// same way whatever the order in which sets are solved.
+func setLess(a, b []int) bool {
+	if len(a) != len(b) {
+		return len(a) < len(b)
+	}
+	for i := range a {
+		if a[i] != b[i] {
+			return a[i] < b[i]
+		}
+	}
+	return false
+}
+
+// singleBound is a lower bound on the total of a single candidate lane
+// (ok false: none known).
+type singleBound struct {
+	total flow.Wide
+	ok    bool
+}
+
+// singleBounds bounds from below the total (routing cost plus fixed cost)
+// of the network with each single candidate of idx added, on an infeasible
+// network solved with priced unmet demand (sv.basis; the virtual origin O
+// is the node after n's). Let R be the cut's region, s its shortfall, P0
+// the priced optimum, p its potentials and r(c) = rate + p(from) - p(to)
+// the candidate's reduced cost. A candidate from u outside R to v inside
+// that restores feasibility carries x >= s units; the change from the
+// priced optimum splits into cycles through the candidate (conformal to
+// it): exactly s units on cycles through O (each costs at least
+// r(c) + d(v, O) + d(O, u), residual distances in reduced cost), the
+// rest on cycles leaving R by a residual arc not into O (each unit at
+// least r(c) + delta, delta the least reduced cost of such arcs, at most
+// their total room), plus cycles without it (never negative). So
+//
+//	total >= fixed + P0 + s·(r(c) + d(v,O) + d(O,u)) + min(0, r(c)+delta)·min(cap - s, room).
+//
+// Two searches and one pass over the lanes; O(1) per candidate.
+func (sv *setSolver) singleBounds(cut *flow.Cut, idx []int) ([]singleBound, error) {
+	n, b := sv.n, sv.basis
+	out := make([]singleBound, len(sv.cands))
+	o := flow.NodeID(n.NumNodes())
+	toO, err := b.Distances(o, true)
+	if err != nil {
+		return nil, err
+	}
+	fromO, err := b.Distances(o, false)
+	if err != nil {
+		return nil, err
+	}
+	region := make([]bool, n.NumNodes()+1)
+	for _, v := range cut.Region {
+		region[v] = true
+	}
+	delta, room, found, err := b.Leaving(region, o)
+	if err != nil {
+		return nil, err
+	}
+	short := cut.Short
+	for _, i := range idx {
+		c := sv.cands[i]
+		u, v := c.Tail, c.Head
+		if !region[v] || region[u] || toO[v] == flow.NoRoute || fromO[u] == flow.NoRoute {
+			continue
+		}
+		rc, err := flow.AddChecked(c.Rate, b.Potential(u))
+		if err == nil {
+			rc, err = flow.SubChecked(rc, b.Potential(v))
+		}
+		var via int64
+		if err == nil {
+			via, err = flow.AddChecked(rc, toO[v])
+		}
+		if err == nil {
+			via, err = flow.AddChecked(via, fromO[u])
+		}
+		if err != nil {
+			continue // no bound
+		}
+		t, err := sv.base.Add(flow.MulWide(short, via))
+		if err == nil {
+			t, err = t.Add(flow.WideFrom(c.Fixed))
+		}
+		if err != nil {
+			continue
+		}
+		if found {
+			per, err := flow.AddChecked(rc, delta)
+			if err != nil {
+				continue
+			}
+			if per < 0 {
+				units := room
+				if c.Upper != flow.NoLimit && (units == flow.NoLimit || c.Upper-short < units) {
+					units = c.Upper - short
+				}
+				if units == flow.NoLimit {
+					continue // no bound
+				}
+				if t, err = t.Add(flow.MulWide(per, units)); err != nil {
+					continue
+				}
+			}
+		}
+		out[i] = singleBound{total: t, ok: true}
+	}
+	return out, nil
 }
 
 // consider makes t the best when it is better, reading its plan before the
@@ -371,35 +521,36 @@ func (sv *setSolver) consider(t trial) trial {
 // pricedBasis solves n with unmet demand priced at one more than the sum of
 // all |rates| (lanes and candidates), so that every optimum leaves the least
 // possible demand unmet, and keeps its basis; unmet is the number of unmet
-// lanes (after n's lanes). It returns a nil basis (no error) when the price
-// or the costs would overflow, a candidate has a minimum, or the priced
-// network has no optimum (minimums): Extend then solves each set from
-// scratch.
-func pricedBasis(n *flow.Network, cands []flow.Candidate) (*flow.Basis, int, error) {
+// lanes (after n's lanes) and cost the optimum's cost (unmet demand at its
+// price included). It returns a nil basis (no error) when the price or the
+// costs would overflow, a candidate has a minimum, or the priced network
+// has no optimum (minimums): Extend then solves each set from scratch.
+func pricedBasis(n *flow.Network, cands []flow.Candidate) (*flow.Basis, int, flow.Wide, error) {
+	none := flow.Wide{}
 	if hasMinimum(cands) {
-		return nil, 0, nil
+		return nil, 0, none, nil
 	}
 	price := int64(1)
 	var err error
 	for _, r := range n.Rate {
 		if price, err = flow.AddChecked(price, max(r, -r)); err != nil {
-			return nil, 0, nil
+			return nil, 0, none, nil
 		}
 	}
 	for _, c := range cands {
 		if price, err = flow.AddChecked(price, max(c.Rate, -c.Rate)); err != nil {
-			return nil, 0, nil
+			return nil, 0, none, nil
 		}
 	}
 	ext, err := flow.WithShortfall(n, price, nil)
 	if err != nil {
-		return nil, 0, nil // e.g. a node already named like the virtual one
+		return nil, 0, none, nil // e.g. a node already named like the virtual one
 	}
 	sol, err := flow.Solve(ext, flow.SolveOptions{Keep: true})
 	if err != nil || sol.Status != flow.Optimal {
-		return nil, 0, nil
+		return nil, 0, none, nil
 	}
-	return sol.Basis, ext.NumLanes() - n.NumLanes(), nil
+	return sol.Basis, ext.NumLanes() - n.NumLanes(), sol.Cost, nil
 }
 
 // bound solves the linear relaxation of the fixed-charge problem: every

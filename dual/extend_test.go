@@ -80,7 +80,7 @@ func bruteSingle(t *testing.T, n *flow.Network, cs []flow.Candidate) float64 {
 // the lower bound holds.
 func TestExtendAgainstBruteForce(t *testing.T) {
 	rng := rand.New(rand.NewPCG(3, 9))
-	fixedCases, madeFeasible := 0, 0
+	fixedCases, madeFeasible, pruned := 0, 0, 0
 	for i := 0; i < 150; i++ {
 		o := randnet.RandomOptions(rng)
 		o.NegativeRates = false
@@ -131,11 +131,13 @@ func TestExtendAgainstBruteForce(t *testing.T) {
 		if err != nil {
 			t.Fatalf("case %d: %v", i, err)
 		}
-		// The best single lane is exact.
+		// The best single lane is exact (also when lanes were skipped by
+		// their lower bounds).
 		one, err := dual.Extend(n, cs, dual.ExtendOptions{SinglesOnly: true})
 		if err != nil {
 			t.Fatalf("case %d: singles: %v", i, err)
 		}
+		pruned += one.Pruned
 		if ws := bruteSingle(t, n, cs); !one.Feasible {
 			if !math.IsInf(ws, 1) {
 				t.Fatalf("case %d: no single lane found, brute force finds %v", i, ws)
@@ -188,8 +190,113 @@ func TestExtendAgainstBruteForce(t *testing.T) {
 			t.Fatalf("case %d: lower bound %s above the answer %s", i, n.FormatCost(x.Bound), n.FormatCost(x.Cost))
 		}
 	}
-	t.Logf("%d cases with fixed costs, %d made feasible", fixedCases, madeFeasible)
+	t.Logf("%d cases with fixed costs, %d made feasible, %d single lanes skipped by their bounds", fixedCases, madeFeasible, pruned)
 	if fixedCases < 30 || madeFeasible < 10 {
 		t.Errorf("coverage: %d cases with fixed costs, %d made feasible", fixedCases, madeFeasible)
+	}
+}
+
+// TestSingleBounds checks the lower bounds used to skip single candidate
+// lanes on infeasible networks: every bound is at most the exact total of
+// the network with that lane added (gonum's LP simplex, internal/oracle,
+// plus the lane's fixed cost), whenever that network is feasible; and the
+// best single lane found while skipping lanes is the brute-force best.
+func TestSingleBounds(t *testing.T) {
+	rng := rand.New(rand.NewPCG(17, 3))
+	bounded, tight, pruned := 0, 0, 0
+	for i := 0; i < 400 && bounded < 300; i++ {
+		o := randnet.RandomOptions(rng)
+		o.NegativeRates, o.Infeasible = false, false
+		n := randnet.Network(rng, o)
+		if n.NumNodes() < 2 {
+			continue
+		}
+		for e := range n.Upper {
+			if rng.IntN(2) == 0 {
+				u := n.Upper[e]
+				if u == flow.NoLimit {
+					u = 40
+				}
+				n.Upper[e] = max(n.Lower[e], u/4)
+			}
+		}
+		cut, err := flow.FindCut(n)
+		if err != nil {
+			t.Fatal(err)
+		}
+		if cut == nil || cut.Hold {
+			continue
+		}
+		in := make([]bool, n.NumNodes())
+		for _, v := range cut.Region {
+			in[v] = true
+		}
+		var outside []flow.NodeID
+		for v := range in {
+			if !in[v] {
+				outside = append(outside, flow.NodeID(v))
+			}
+		}
+		if len(outside) == 0 {
+			continue
+		}
+		var cs []flow.Candidate
+		for k := 0; k < 6; k++ {
+			c := flow.Candidate{ID: "c", Tail: outside[rng.IntN(len(outside))], Head: cut.Region[rng.IntN(len(cut.Region))],
+				Rate: rng.Int64N(2 * max(o.MaxRate, 1)), Upper: flow.NoLimit, Fixed: rng.Int64N(1000), Same: -1}
+			if rng.IntN(3) > 0 {
+				c.Upper = cut.Short + rng.Int64N(3*cut.Short+1)
+			}
+			cs = append(cs, c)
+		}
+		lb, has, ok, err := dual.SingleBoundsForTest(n, cs, cut)
+		if err != nil {
+			t.Fatalf("case %d: %v", i, err)
+		}
+		if !ok {
+			continue
+		}
+		scale := math.Pow10(n.QtyPlaces + n.RatePlaces)
+		// The best single lane, with lanes skipped by their bounds, is the
+		// brute-force best.
+		one, err := dual.Extend(n, cs, dual.ExtendOptions{SinglesOnly: true, Cut: cut, CutKnown: true})
+		if err != nil {
+			t.Fatalf("case %d: %v", i, err)
+		}
+		pruned += one.Pruned
+		ws := bruteSingle(t, n, cs)
+		if one.Feasible != !math.IsInf(ws, 1) {
+			t.Fatalf("case %d: best single found %v, brute force %v", i, one.Feasible, ws)
+		}
+		if one.Feasible {
+			if got := float64(one.Cost.Big().Int64()) / scale; math.Abs(got-ws) > 1e-6*math.Max(1, math.Abs(ws)) {
+				t.Fatalf("case %d: best single %v, brute force %v", i, got, ws)
+			}
+		}
+		for k, c := range cs {
+			if !has[k] {
+				continue
+			}
+			res, err := oracle.MinCost(n.WithLanes([]flow.Candidate{c}))
+			if err != nil {
+				t.Fatal(err)
+			}
+			if res.Status != oracle.Optimal {
+				continue // the lane alone does not restore feasibility
+			}
+			bounded++
+			exact := (res.CostScaled + float64(c.Fixed)) / scale
+			got := float64(lb[k].Big().Int64()) / scale
+			if got > exact+1e-6*math.Max(1, math.Abs(exact)) {
+				t.Fatalf("case %d lane %+v: bound %v above the exact total %v (cut %+v)", i, c, got, exact, cut)
+			}
+			if math.Abs(got-exact) <= 1e-6*math.Max(1, math.Abs(exact)) {
+				tight++
+			}
+		}
+	}
+	t.Logf("%d bounds checked, %d tight; %d single lanes skipped", bounded, tight, pruned)
+	if bounded < 100 || pruned < 30 {
+		t.Errorf("only %d bounds checked, %d lanes skipped", bounded, pruned)
 	}
 }

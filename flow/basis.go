@@ -20,6 +20,9 @@ type Basis struct {
 	maxRate int64    // largest |rate| over the network's lanes
 	gen     uint64   // counts Add calls; Added values check it
 
+	// lanes and hold arcs by node, both ends (Distances, Leaving)
+	adjStart, adj []int32
+
 	// buffers of w, reused from call to call
 	flow, pot                                 []int64
 	state                                     []int8
@@ -268,4 +271,214 @@ func (r *Added) Plan() []int64 {
 	}
 	copy(out[m:], r.Extra)
 	return out
+}
+
+// NoRoute marks a node that Basis.Distances does not reach.
+const NoRoute = int64(math.MaxInt64)
+
+// Potential returns the kept optimum's potential of node v (rate scale):
+// reduced costs r = Rate + p(Tail) - p(Head) meet the optimality rules of
+// Solve. These are the solver's potentials, not normalised as
+// Solution.Potential is (they may differ from it by a constant per
+// component).
+func (b *Basis) Potential(v NodeID) int64 { return b.s.pot[v] }
+
+// residualArcs lists the lanes and hold arcs of the kept state by node
+// (both ends), built once. Artificial arcs are left out: in an optimum
+// they carry nothing and lead only to the artificial root.
+func (b *Basis) residualArcs() {
+	if b.adjStart != nil {
+		return
+	}
+	s := b.s
+	arcs := make([]int32, s.artStart)
+	for a := range arcs {
+		arcs[a] = int32(a)
+	}
+	b.adjStart, b.adj = s.undirected(arcs, s.nNodes)
+}
+
+// step returns, for arc a seen from node v, the node across it and the
+// reduced cost of moving along it from v (forward when v is its tail:
+// more flow; backward: less), or ok false when the arc has no room that
+// way. Reversed (rev) looks at the step from the other node to v.
+func (s *simplex) step(a, v int32, rev bool) (int32, int64, bool, error) {
+	t, h := s.ends(a)
+	r, err := AddChecked(s.costOf(a), s.pot[t])
+	if err == nil {
+		r, err = SubChecked(r, s.pot[h])
+	}
+	if err != nil {
+		return 0, 0, false, fmt.Errorf("flow: reduced cost: %w", err)
+	}
+	// Moving from t to h needs room above the flow; from h to t, flow.
+	fromTail := (v == t) != rev
+	if fromTail {
+		if c := s.capOf(a); c != inf && s.flow[a] >= c {
+			return 0, 0, false, nil
+		}
+	} else {
+		if s.flow[a] <= 0 {
+			return 0, 0, false, nil
+		}
+		r = -r
+	}
+	o := h
+	if v == h {
+		o = t
+	}
+	if t == h {
+		return 0, 0, false, nil
+	}
+	return o, r, true, nil
+}
+
+// Distances returns, for every node of the network, the least total
+// reduced cost of a route from src (towards src when toSrc) through the
+// residual network of the kept optimum: along a lane or hold arc (see
+// Solve's excess-supply rule) in the direction of more flow while below
+// its capacity, or of less flow while above zero (above the minimum).
+// Reduced costs are taken with Potential and negated backwards; at an
+// optimum they are never negative that way, so this is Dijkstra's search.
+// The real cost of a route from x to y is its distance plus p(y) - p(x).
+// Nodes not reached get NoRoute. Time O((|V|+|E|) log |V|), memory
+// O(|V|+|E|) (the arcs by node are built at the first call and kept).
+func (b *Basis) Distances(src NodeID, toSrc bool) ([]int64, error) {
+	b.residualArcs()
+	s := b.s
+	nn := s.nNodes
+	dist := make([]int64, nn)
+	for i := range dist {
+		dist[i] = NoRoute
+	}
+	done := make([]bool, nn)
+	h := distHeap{}
+	dist[src] = 0
+	h.push(distItem{0, int32(src)})
+	for len(h) > 0 {
+		it := h.pop()
+		v := it.v
+		if done[v] || it.d != dist[v] {
+			continue
+		}
+		done[v] = true
+		for _, a := range b.adj[b.adjStart[v]:b.adjStart[v+1]] {
+			o, r, ok, err := s.step(a, v, toSrc)
+			if err != nil {
+				return nil, err
+			}
+			if !ok || done[o] {
+				continue
+			}
+			if r < 0 {
+				return nil, fmt.Errorf("flow: distances: negative reduced cost %d on a residual arc: the kept basis is not optimal", r)
+			}
+			nd, err := AddChecked(it.d, r)
+			if err != nil {
+				return nil, fmt.Errorf("flow: distances: %w", err)
+			}
+			if nd < dist[o] {
+				dist[o] = nd
+				h.push(distItem{nd, o})
+			}
+		}
+	}
+	return dist[:len(s.net.Nodes)], nil
+}
+
+// Leaving describes the residual arcs of the kept optimum from the nodes
+// of region (one flag per node of the network) to nodes outside it other
+// than skip (-1: none; the hold node counts as outside): the least reduced
+// cost of moving along one (see Distances), and the total room along them
+// (NoLimit when one has no limit). found is false when there is none.
+// O(|V|+|E|).
+func (b *Basis) Leaving(region []bool, skip NodeID) (least, room int64, found bool, err error) {
+	b.residualArcs()
+	s := b.s
+	nv := len(s.net.Nodes)
+	in := func(v int32) bool { return int(v) < nv && region[v] }
+	for v := int32(0); int(v) < nv; v++ {
+		if !region[v] {
+			continue
+		}
+		for _, a := range b.adj[b.adjStart[v]:b.adjStart[v+1]] {
+			o, r, ok, err := s.step(a, v, false)
+			if err != nil {
+				return 0, 0, false, err
+			}
+			if !ok || in(o) || o == int32(skip) {
+				continue
+			}
+			t, _ := s.ends(a)
+			spare := s.flow[a] // backward
+			if t == v {
+				if c := s.capOf(a); c == inf {
+					spare = NoLimit
+				} else {
+					spare = c - s.flow[a]
+				}
+			}
+			if !found || r < least {
+				least = r
+			}
+			found = true
+			switch {
+			case room == NoLimit || spare == NoLimit:
+				room = NoLimit
+			default:
+				if room, err = AddChecked(room, spare); err != nil {
+					room = NoLimit // more than can be counted: no limit
+				}
+			}
+		}
+	}
+	return least, room, found, nil
+}
+
+type distItem struct {
+	d int64
+	v int32
+}
+
+// distHeap is a binary min-heap by (d, v).
+type distHeap []distItem
+
+func (a distItem) less(b distItem) bool { return a.d < b.d || (a.d == b.d && a.v < b.v) }
+
+func (q *distHeap) push(it distItem) {
+	h := append(*q, it)
+	i := len(h) - 1
+	for i > 0 {
+		p := (i - 1) / 2
+		if !h[i].less(h[p]) {
+			break
+		}
+		h[i], h[p] = h[p], h[i]
+		i = p
+	}
+	*q = h
+}
+
+func (q *distHeap) pop() distItem {
+	h := *q
+	top := h[0]
+	last := len(h) - 1
+	h[0] = h[last]
+	h = h[:last]
+	for i := 0; ; {
+		c := 2*i + 1
+		if c >= last {
+			break
+		}
+		if c+1 < last && h[c+1].less(h[c]) {
+			c++
+		}
+		if !h[c].less(h[i]) {
+			break
+		}
+		h[i], h[c] = h[c], h[i]
+		i = c
+	}
+	*q = h
+	return top
 }
