@@ -253,7 +253,7 @@ func Extend(n *flow.Network, cands []flow.Candidate, opt ExtendOptions) (*Extens
 		}
 		x.Method = fmt.Sprintf("every single lane that can help, every pair among the %d best singles, then lanes added one at a time while the total fell", len(pool))
 		if opt.SinglesOnly {
-			x.Method = "the best single lane (every single lane that can help)"
+			x.Method = "the best single lane (every single lane that can help, solved in order of a lower bound on its total; lanes whose bound cannot beat the best found are not solved)"
 		}
 		x.Exact = len(cands) <= 1 || (len(cands) == 2 && !opt.SinglesOnly)
 		if opt.SinglesOnly {

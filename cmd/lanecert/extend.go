@@ -19,6 +19,7 @@ type extendOptions struct {
 	perKm      string
 	perUnit    string
 	nearest    int
+	oneLane    bool
 	format     string
 	output     string
 }
@@ -36,7 +37,8 @@ the short region, its demand, what can reach it and the units short.
 Without fixed costs the answer is one minimum-cost flow over the network and
 all candidates (exact). With fixed costs it is the best single lane and
 best pair, then lanes added one at a time while that helps, with a lower
-bound on the best possible total.
+bound on the best possible total. --one-lane looks only for the best single
+lane (exact among single lanes, with or without fixed costs).
 
 Without a candidate file, when the node table has lat and lon columns and
 the network is short, candidate lanes are proposed from the origins nearest
@@ -62,6 +64,7 @@ with the candidates, 4 bad input or usage.`,
 	f.StringVar(&o.perKm, "per-km", "", "estimated rate per unit and kilometre, for proposed lanes")
 	f.StringVar(&o.perUnit, "per-unit", "0", "estimated fixed rate per unit, for proposed lanes")
 	f.IntVar(&o.nearest, "nearest", 3, "proposed lanes per short destination, from its nearest origins")
+	f.BoolVar(&o.oneLane, "one-lane", false, "look only for the best single lane to add (exact; faster on long candidate files)")
 	f.StringVar(&o.format, "format", "table", "output format: table, json or markdown")
 	f.StringVarP(&o.output, "output", "o", "", "write the report to this file (atomically) instead of standard output")
 	return cmd
@@ -116,7 +119,7 @@ func runExtend(o *extendOptions, s streams) error {
 	default:
 		return errors.New("no candidates: give --candidates (the network can meet its demands, so there is no short region to propose lanes for)")
 	}
-	x, err := dual.Extend(n, cands, dual.ExtendOptions{Cut: cut, CutKnown: true})
+	x, err := dual.Extend(n, cands, dual.ExtendOptions{Cut: cut, CutKnown: true, SinglesOnly: o.oneLane})
 	if err != nil {
 		return err
 	}

@@ -375,6 +375,22 @@ func TestExtend(t *testing.T) {
 	if !doc.Estimated || !doc.Feasible || doc.Cut == nil || len(doc.Added) == 0 || doc.Added[0].To != "Larkspur Stores" {
 		t.Fatalf("doc %+v\n%s", doc, out)
 	}
+	// --one-lane: the best single lane among the proposed ones, exact.
+	code, out, errText = runCLI(t, "extend", lanes, "--nodes", nodes, "--per-km", "0.05", "--per-unit", "4", "--format", "json", "--one-lane")
+	var one struct {
+		Feasible bool   `json:"feasible"`
+		Method   string `json:"method"`
+		Exact    bool   `json:"exact"`
+		Added    []struct {
+			To string `json:"to"`
+		} `json:"added_lanes"`
+	}
+	if code != exitOptimal || json.Unmarshal([]byte(out), &one) != nil {
+		t.Fatalf("--one-lane: exit %d: %s\n%s", code, errText, out)
+	}
+	if !one.Feasible || !one.Exact || len(one.Added) != 1 || one.Added[0].To != "Larkspur Stores" || !strings.Contains(one.Method, "single") {
+		t.Fatalf("--one-lane: %+v\n%s", one, out)
+	}
 	// The demo's candidate file holds no lane into Larkspur Stores: still short.
 	code, _, _ = runCLI(t, "extend", lanes, "--nodes", nodes, "--candidates", filepath.Join(dir, "candidates.csv"))
 	if code != exitNetworkInfeasible {
