@@ -162,7 +162,7 @@ func Extend(n *flow.Network, cands []flow.Candidate, opt ExtendOptions) (*Extens
 		// lower bound on their total, and those whose bound cannot beat
 		// the best found are not solved.
 		var lb []singleBound
-		if opt.SinglesOnly && cut != nil && !cut.Hold && sv.basis != nil && sv.unmet > 0 {
+		if opt.SinglesOnly && sv.basis != nil && ((cut != nil && !cut.Hold && sv.unmet > 0) || (cut == nil && x.WasFeasible)) {
 			var err error
 			if lb, err = sv.singleBounds(cut, order); err != nil {
 				return nil, err
@@ -429,6 +429,9 @@ type singleBound struct {
 //
 // Two searches and one pass over the lanes; O(1) per candidate.
 func (sv *setSolver) singleBounds(cut *flow.Cut, idx []int) ([]singleBound, error) {
+	if cut == nil {
+		return sv.feasibleBounds(idx)
+	}
 	n, b := sv.n, sv.basis
 	out := make([]singleBound, len(sv.cands))
 	o := flow.NodeID(n.NumNodes())
@@ -551,6 +554,41 @@ func pricedBasis(n *flow.Network, cands []flow.Candidate) (*flow.Basis, int, flo
 		return nil, 0, none, nil
 	}
 	return sol.Basis, ext.NumLanes() - n.NumLanes(), sol.Cost, nil
+}
+
+// feasibleBounds bounds from below the total of a feasible network with
+// each single candidate of idx added: every unit on the candidate lies on a
+// cycle through it whose reduced cost is at least the candidate's, r(c) =
+// rate + p(from) - p(to) with the optimum's potentials, and the other
+// cycles cost nothing or more, so total >= optimum + fixed + min(0, r(c))·cap
+// (no bound for a lane without capacity and r(c) < 0). O(1) per candidate.
+func (sv *setSolver) feasibleBounds(idx []int) ([]singleBound, error) {
+	b := sv.basis
+	out := make([]singleBound, len(sv.cands))
+	for _, i := range idx {
+		c := sv.cands[i]
+		rc, err := flow.AddChecked(c.Rate, b.Potential(c.Tail))
+		if err == nil {
+			rc, err = flow.SubChecked(rc, b.Potential(c.Head))
+		}
+		if err != nil {
+			continue
+		}
+		t, err := sv.x.BaseCost.Add(flow.WideFrom(c.Fixed))
+		if err != nil {
+			continue
+		}
+		if rc < 0 {
+			if c.Upper == flow.NoLimit {
+				continue
+			}
+			if t, err = t.Add(flow.MulWide(rc, c.Upper)); err != nil {
+				continue
+			}
+		}
+		out[i] = singleBound{total: t, ok: true}
+	}
+	return out, nil
 }
 
 // bound solves the linear relaxation of the fixed-charge problem: every
