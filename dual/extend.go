@@ -162,7 +162,9 @@ func Extend(n *flow.Network, cands []flow.Candidate, opt ExtendOptions) (*Extens
 		// lower bound on their total, and those whose bound cannot beat
 		// the best found are not solved.
 		var lb []singleBound
-		if opt.SinglesOnly && sv.basis != nil && ((cut != nil && !cut.Hold && sv.unmet > 0) || (cut == nil && x.WasFeasible)) {
+		// (The bounds of an infeasible network cost two searches: not worth
+		// it for a handful of lanes.)
+		if opt.SinglesOnly && sv.basis != nil && ((cut != nil && !cut.Hold && sv.unmet > 0 && len(order) >= minBoundedLanes) || (cut == nil && x.WasFeasible)) {
 			var err error
 			if lb, err = sv.singleBounds(cut, order); err != nil {
 				return nil, err
@@ -403,6 +405,10 @@ func setLess(a, b []int) bool {
 	}
 	return false
 }
+
+// minBoundedLanes is the number of single lanes to solve on an infeasible
+// network from which bounding them first pays.
+const minBoundedLanes = 8
 
 // singleBound is a lower bound on the total of a single candidate lane
 // (ok false: none known).

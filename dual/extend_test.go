@@ -241,7 +241,7 @@ func TestSingleBounds(t *testing.T) {
 			continue
 		}
 		var cs []flow.Candidate
-		for k := 0; k < 6; k++ {
+		for k := 0; k < 10; k++ { // at least minBoundedLanes, so bounds are used
 			c := flow.Candidate{ID: "c", Tail: outside[rng.IntN(len(outside))], Head: cut.Region[rng.IntN(len(cut.Region))],
 				Rate: rng.Int64N(2 * max(o.MaxRate, 1)), Upper: flow.NoLimit, Fixed: rng.Int64N(1000), Same: -1}
 			if rng.IntN(3) > 0 {
