@@ -551,15 +551,11 @@ func pricedBasis(n *flow.Network, cands []flow.Candidate) (*flow.Basis, int, flo
 			return nil, 0, none, nil
 		}
 	}
-	ext, err := flow.WithShortfall(n, price, nil)
-	if err != nil {
-		return nil, 0, none, nil // e.g. a node already named like the virtual one
-	}
-	sol, err := flow.Solve(ext, flow.SolveOptions{Keep: true})
+	sol, unmet, err := flow.SolvePricedShortfall(n, price)
 	if err != nil || sol.Status != flow.Optimal {
 		return nil, 0, none, nil
 	}
-	return sol.Basis, ext.NumLanes() - n.NumLanes(), sol.Cost, nil
+	return sol.Basis, unmet, sol.Cost, nil
 }
 
 // feasibleBounds bounds from below the total of a feasible network with

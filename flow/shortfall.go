@@ -63,6 +63,34 @@ func WithShortfall(n *Network, price int64, prices []int64) (*Network, error) {
 	if err := n.Validate(); err != nil {
 		return nil, err
 	}
+	return withShortfall(n, price, prices, true)
+}
+
+// SolvePricedShortfall solves WithShortfall(n, price, nil) and keeps the
+// optimum's basis (SolveOptions.Keep): lanes 0..NumLanes()-1 are n's, the
+// next unmet ones (one per destination, in node order, from the virtual
+// origin, node NumNodes() of n). The priced network is built without lane
+// names (it is never shown), which spares a string per lane. It returns the
+// solution and the number of unmet lanes. Time: one cold solve of the
+// priced network plus O(|V|+|E|).
+func SolvePricedShortfall(n *Network, price int64) (*Solution, int, error) {
+	if price < 0 {
+		return nil, 0, fmt.Errorf("flow: shortfall price %d is negative", price)
+	}
+	ext, err := withShortfall(n, price, nil, false)
+	if err != nil {
+		return nil, 0, err
+	}
+	sol, err := Solve(ext, SolveOptions{Keep: true})
+	if err != nil {
+		return nil, 0, err
+	}
+	return sol, len(ext.Tail) - len(n.Tail), nil
+}
+
+// withShortfall is WithShortfall on a valid n; named false leaves the lane
+// names out (numbers).
+func withShortfall(n *Network, price int64, prices []int64, named bool) (*Network, error) {
 	if price < 0 {
 		return nil, fmt.Errorf("flow: shortfall price %d is negative", price)
 	}
@@ -96,30 +124,37 @@ func WithShortfall(n *Network, price int64, prices []int64) (*Network, error) {
 		Lower:      slices.Grow(slices.Clone(n.Lower), k),
 		Upper:      slices.Grow(slices.Clone(n.Upper), k),
 		Rate:       slices.Grow(slices.Clone(n.Rate), k),
-		LaneNames:  make([]string, m, m+k),
 		QtyPlaces:  n.QtyPlaces,
 		RatePlaces: n.RatePlaces,
 	}
 	// Only names with the virtual lanes' prefix can clash; numbered lanes
 	// (no names) get their numbers as substrings of one string.
 	names := map[string]bool{}
-	if n.LaneNames != nil {
+	if named {
+		ext.LaneNames = make([]string, m, m+k)
+	}
+	switch {
+	case !named:
+	case n.LaneNames != nil:
 		copy(ext.LaneNames, n.LaneNames)
 		for _, name := range n.LaneNames {
 			if strings.HasPrefix(name, UnmetLanePrefix) {
 				names[name] = true
 			}
 		}
-	} else {
+	default:
 		numberNames(ext.LaneNames[:m])
 	}
 	u := NodeID(nv)
 	for _, v := range dests {
-		name := UnmetLanePrefix + n.Nodes[v]
-		if names[name] {
-			return nil, fmt.Errorf("flow: a lane is already named %q", name)
+		if named {
+			name := UnmetLanePrefix + n.Nodes[v]
+			if names[name] {
+				return nil, fmt.Errorf("flow: a lane is already named %q", name)
+			}
+			names[name] = true
+			ext.LaneNames = append(ext.LaneNames, name)
 		}
-		names[name] = true
 		r := price
 		if prices != nil && prices[v] >= 0 {
 			r = prices[v]
@@ -129,10 +164,11 @@ func WithShortfall(n *Network, price int64, prices []int64) (*Network, error) {
 		ext.Lower = append(ext.Lower, 0)
 		ext.Upper = append(ext.Upper, -n.Supply[v]) // Totals checked -Supply fits
 		ext.Rate = append(ext.Rate, r)
-		ext.LaneNames = append(ext.LaneNames, name)
 	}
-	ext.Extra = extendExtra(n.Extra, k)
-	ext.NodeExtra = extendExtra(n.NodeExtra, 1)
+	if named {
+		ext.Extra = extendExtra(n.Extra, k)
+		ext.NodeExtra = extendExtra(n.NodeExtra, 1)
+	}
 	return ext, nil
 }
 

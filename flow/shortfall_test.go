@@ -282,3 +282,48 @@ func TestWithShortfallRandom(t *testing.T) {
 		t.Fatalf("too few cases of a kind: %d solved, %d fixed, %d still infeasible", solved, fixed, still)
 	}
 }
+
+// TestSolvePricedShortfall: the unnamed priced network solved with its basis
+// kept gives the same status, cost and number of unmet lanes as solving
+// WithShortfall's copy, and its plan is feasible for that copy.
+func TestSolvePricedShortfall(t *testing.T) {
+	rng := rand.New(rand.NewPCG(8, 21))
+	solved := 0
+	for i := 0; i < 200; i++ {
+		o := randnet.RandomOptions(rng)
+		o.NegativeRates = false
+		n := randnet.Network(rng, o)
+		price := 1 + rng.Int64N(1000)
+		ext, err := flow.WithShortfall(n, price, nil)
+		if err != nil {
+			continue
+		}
+		want, err := flow.Solve(ext, flow.SolveOptions{})
+		if err != nil {
+			t.Fatal(err)
+		}
+		got, unmet, err := flow.SolvePricedShortfall(n, price)
+		if err != nil {
+			t.Fatalf("case %d: %v", i, err)
+		}
+		if got.Status != want.Status || unmet != ext.NumLanes()-n.NumLanes() {
+			t.Fatalf("case %d: status %v (%d unmet lanes), want %v (%d)", i, got.Status, unmet, want.Status, ext.NumLanes()-n.NumLanes())
+		}
+		if got.Status != flow.Optimal {
+			continue
+		}
+		solved++
+		if got.Cost.Cmp(want.Cost) != 0 || got.Basis == nil {
+			t.Fatalf("case %d: cost %s, want %s", i, got.Cost.Format(0), want.Cost.Format(0))
+		}
+		if err := certcheck.Feasible(ext, got.Flow); err != nil {
+			t.Fatalf("case %d: %v", i, err)
+		}
+	}
+	if solved < 100 {
+		t.Errorf("only %d solved", solved)
+	}
+	if _, _, err := flow.SolvePricedShortfall(build([]int64{1, -1}, [][5]int64{{0, 1, 0, 1, 1}}), -1); err == nil {
+		t.Error("negative price accepted")
+	}
+}
