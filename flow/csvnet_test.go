@@ -140,6 +140,9 @@ func TestReadCSVNetworkLaneErrors(t *testing.T) {
 			want: []wantErr{{2, 1, "from", ErrSyntax}, {2, 4, "cost", ErrNotDecimal}, {2, 6, "min", ErrBounds}, {3, 7, "min", ErrNegative}}},
 		// `"A, Inc.",B,"x"`: the quoted name is 9 bytes, B at 11, "x" at 13.
 		{name: "after a quoted field", lanes: "from,to,cost\n\"A, Inc.\",B,\"x\"\n", want: []wantErr{{2, 13, "cost", ErrNotDecimal}}},
+		// A bad cost on line 2, then a CSV syntax error on line 3: both.
+		{name: "error before a syntax error", lanes: "from,to,cost\nA,B,x\nA,B\n",
+			want: []wantErr{{2, 5, "cost", ErrNotDecimal}, {3, 1, "", ErrSyntax}}},
 		{name: "CRLF", lanes: "from,to,cost\r\nA,B,1\r\nA,B,y\r\n", want: []wantErr{{3, 5, "cost", ErrNotDecimal}}},
 		{name: "blank line counts as a line", lanes: "from,to,cost\n\nA,B,y\n", want: []wantErr{{3, 5, "cost", ErrNotDecimal}}},
 		// Without the option a comma is read as a decimal comma only when no

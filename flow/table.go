@@ -230,7 +230,15 @@ func (t *table) each(fn func(row *row)) error {
 			return nil
 		}
 		if err != nil {
-			return csvError(t.file, err)
+			// Keep the errors found before the syntax error.
+			err = csvError(t.file, err)
+			var pe *ParseError
+			if len(t.e.list) == 0 || !errors.As(err, &pe) {
+				return err
+			}
+			pe.Sheet = t.sheet
+			t.e.list = append(t.e.list, pe)
+			return t.e.list.sortAndErr()
 		}
 		if len(rec) == 1 && strings.TrimSpace(rec[0]) == "" {
 			continue // blank line
