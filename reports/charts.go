@@ -99,6 +99,9 @@ func costChart(d *Document) (chart, error) {
 	bars.LineStyle.Width = 0
 	p.Add(bars)
 	p.NominalX("plan", "optimum")
+	// Room for the bars' width at both ends (gonum sizes the x range by
+	// the bar centres).
+	p.X.Min, p.X.Max = -0.6, 1.6
 	pad(&p.Y)
 	c.Caption = fmt.Sprintf("Plan cost %s, optimal cost %s, gap %s.", d.PlanCost, *d.OptimalCost, *d.Gap)
 	c.SVG, err = renderChart(p, 4*vg.Inch, 3*vg.Inch, c.Title)
@@ -142,6 +145,7 @@ func repairChart(d *Document) (chart, error) {
 	bc.LineStyle.Width = 0
 	p.Add(bc)
 	p.NominalY(names...)
+	p.Y.Min, p.Y.Max = -0.6, float64(len(bars))-0.4 // room for the bars' height
 	pad(&p.X)
 	c.Caption = fmt.Sprintf("%d of %d changed lane(s); the repair table lists the exact amounts.", len(bars), len(d.Repair))
 	h := vg.Length(len(bars))*16 + 70
