@@ -178,6 +178,11 @@ func Extend(n *flow.Network, cands []flow.Candidate, opt ExtendOptions) (*Extens
 			})
 		}
 		for _, i := range order {
+			if lb != nil && lb[i].never {
+				singles[i] = trial{set: []int{i}, short: -1}
+				x.Pruned++
+				continue
+			}
 			if lb != nil && lb[i].ok && sv.best.ok {
 				if c := lb[i].total.Cmp(sv.best.total); c > 0 || (c == 0 && !setLess([]int{i}, sv.best.set)) {
 					singles[i] = trial{set: []int{i}, short: -1}
@@ -415,6 +420,7 @@ const minBoundedLanes = 8
 type singleBound struct {
 	total flow.Wide
 	ok    bool
+	never bool // the lane cannot restore feasibility
 }
 
 // singleBounds bounds from below the total (routing cost plus fixed cost)
@@ -424,14 +430,18 @@ type singleBound struct {
 // the priced optimum, p its potentials and r(c) = rate + p(from) - p(to)
 // the candidate's reduced cost. A candidate from u outside R to v inside
 // that restores feasibility carries x >= s units; the change from the
-// priced optimum splits into cycles through the candidate (conformal to
-// it): exactly s units on cycles through O (each costs at least
+// priced optimum splits into cycles conformal to it (no unmet lane grows):
+// exactly s units on cycles through the candidate and O, which they reach
+// by an unmet lane and leave by O's hold arc (each costs at least
 // r(c) + d(v, O) + d(O, u), residual distances in reduced cost), the
 // rest on cycles leaving R by a residual arc not into O (each unit at
 // least r(c) + delta, delta the least reduced cost of such arcs, at most
 // their total room), plus cycles without it (never negative). So
 //
 //	total >= fixed + P0 + s·(r(c) + d(v,O) + d(O,u)) + min(0, r(c)+delta)·min(cap - s, room).
+//
+// When O cannot reach u, or v cannot reach O, no unit can go round through
+// O and the lane cannot restore feasibility (never).
 //
 // Two searches and one pass over the lanes; O(1) per candidate.
 func (sv *setSolver) singleBounds(cut *flow.Cut, idx []int) ([]singleBound, error) {
@@ -441,11 +451,14 @@ func (sv *setSolver) singleBounds(cut *flow.Cut, idx []int) ([]singleBound, erro
 	n, b := sv.n, sv.basis
 	out := make([]singleBound, len(sv.cands))
 	o := flow.NodeID(n.NumNodes())
-	toO, err := b.Distances(o, true)
+	// Units that lower the unmet demand reach O by an unmet lane (less
+	// unmet) and leave it by its hold arc (O keeps more back): in a plan
+	// that meets every demand no unmet lane grows.
+	toO, err := b.Distances(o, true, flow.SrcLanes)
 	if err != nil {
 		return nil, err
 	}
-	fromO, err := b.Distances(o, false)
+	fromO, err := b.Distances(o, false, flow.SrcHold)
 	if err != nil {
 		return nil, err
 	}
@@ -461,7 +474,13 @@ func (sv *setSolver) singleBounds(cut *flow.Cut, idx []int) ([]singleBound, erro
 	for _, i := range idx {
 		c := sv.cands[i]
 		u, v := c.Tail, c.Head
-		if !region[v] || region[u] || toO[v] == flow.NoRoute || fromO[u] == flow.NoRoute {
+		if !region[v] || region[u] {
+			continue
+		}
+		if toO[v] == flow.NoRoute || fromO[u] == flow.NoRoute {
+			// No unit can go round through O: the lane cannot lower the
+			// unmet demand at all.
+			out[i] = singleBound{never: true}
 			continue
 		}
 		rc, err := flow.AddChecked(c.Rate, b.Potential(u))

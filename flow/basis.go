@@ -333,6 +333,19 @@ func (s *simplex) step(a, v int32, rev bool) (int32, int64, bool, error) {
 	return o, r, true, nil
 }
 
+// SrcArcs restricts the arcs Basis.Distances may use at its source.
+type SrcArcs int
+
+const (
+	// AnyArc allows every arc at the source.
+	AnyArc SrcArcs = iota
+	// SrcLanes allows only lanes at the source.
+	SrcLanes
+	// SrcHold allows only the source's hold arc (see Solve's excess-supply
+	// rule): holding more of its supply, or less.
+	SrcHold
+)
+
 // Distances returns, for every node of the network, the least total
 // reduced cost of a route from src (towards src when toSrc) through the
 // residual network of the kept optimum: along a lane or hold arc (see
@@ -341,9 +354,10 @@ func (s *simplex) step(a, v int32, rev bool) (int32, int64, bool, error) {
 // Reduced costs are taken with Potential and negated backwards; at an
 // optimum they are never negative that way, so this is Dijkstra's search.
 // The real cost of a route from x to y is its distance plus p(y) - p(x).
-// Nodes not reached get NoRoute. Time O((|V|+|E|) log |V|), memory
+// first restricts the arcs used at src (its first step, or its last when
+// toSrc); routes do not come back to src. Nodes not reached get NoRoute. Time O((|V|+|E|) log |V|), memory
 // O(|V|+|E|) (the arcs by node are built at the first call and kept).
-func (b *Basis) Distances(src NodeID, toSrc bool) ([]int64, error) {
+func (b *Basis) Distances(src NodeID, toSrc bool, first SrcArcs) ([]int64, error) {
 	b.residualArcs()
 	s := b.s
 	nn := s.nNodes
@@ -363,6 +377,9 @@ func (b *Basis) Distances(src NodeID, toSrc bool) ([]int64, error) {
 		}
 		done[v] = true
 		for _, a := range b.adj[b.adjStart[v]:b.adjStart[v+1]] {
+			if v == int32(src) && ((first == SrcLanes && int(a) >= s.m) || (first == SrcHold && int(a) < s.m)) {
+				continue
+			}
 			o, r, ok, err := s.step(a, v, toSrc)
 			if err != nil {
 				return nil, err

@@ -263,12 +263,17 @@ func TestBasisDistances(t *testing.T) {
 			return b.Potential(flow.NodeID(v))
 		}
 		src := rng.IntN(nv)
-		for _, toSrc := range []bool{false, true} {
-			got, err := b.Distances(flow.NodeID(src), toSrc)
+		for _, mode := range []struct {
+			toSrc bool
+			first flow.SrcArcs
+		}{{false, flow.AnyArc}, {true, flow.AnyArc}, {false, flow.SrcHold}, {true, flow.SrcLanes}, {false, flow.SrcLanes}, {true, flow.SrcHold}} {
+			toSrc := mode.toSrc
+			got, err := b.Distances(flow.NodeID(src), toSrc, mode.first)
 			if err != nil {
 				t.Fatalf("case %d: %v", i, err)
 			}
-			// Bellman-Ford on real costs.
+			// Bellman-Ford on real costs; at src only the arcs allowed, and
+			// no route back into src.
 			const inf = int64(math.MaxInt64)
 			d := make([]int64, nAll)
 			for v := range d {
@@ -281,6 +286,13 @@ func TestBasisDistances(t *testing.T) {
 					if toSrc {
 						from, to = to, from
 					}
+					if to == src {
+						continue
+					}
+					hold := a.from == nv || a.to == nv
+					if from == src && ((mode.first == flow.SrcLanes && hold) || (mode.first == flow.SrcHold && !hold)) {
+						continue
+					}
 					if d[from] != inf && d[from]+a.cost < d[to] {
 						d[to] = d[from] + a.cost
 					}
@@ -288,7 +300,7 @@ func TestBasisDistances(t *testing.T) {
 			}
 			for v := 0; v < nv; v++ {
 				if (got[v] == flow.NoRoute) != (d[v] == inf) {
-					t.Fatalf("case %d node %d (toSrc %v): reached %v, Bellman-Ford %v", i, v, toSrc, got[v] != flow.NoRoute, d[v] != inf)
+					t.Fatalf("case %d node %d (%+v): reached %v, Bellman-Ford %v", i, v, mode, got[v] != flow.NoRoute, d[v] != inf)
 				}
 				if d[v] == inf {
 					continue
@@ -298,7 +310,7 @@ func TestBasisDistances(t *testing.T) {
 					real = got[v] + pot(src) - pot(v)
 				}
 				if real != d[v] {
-					t.Fatalf("case %d node %d (toSrc %v): distance %d is real cost %d, Bellman-Ford %d", i, v, toSrc, got[v], real, d[v])
+					t.Fatalf("case %d node %d (%+v): distance %d is real cost %d, Bellman-Ford %d", i, v, mode, got[v], real, d[v])
 				}
 			}
 		}
