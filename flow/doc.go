@@ -22,4 +22,14 @@
 // its supply. When total supply exceeds total demand, an origin may keep
 // part of its supply: its outflow minus inflow then lies in [0, Supply(v)].
 // Every other node balances exactly.
+//
+// # Solving
+//
+// Solve is an exact primal network simplex; it starts from a given plan
+// when that plan is feasible (a repair) and otherwise from scratch. With
+// SolveOptions.Keep the optimal basis is kept (Basis): Basis.Add re-solves
+// the network with lanes added, from that basis, which is how candidate
+// lanes and carrier bids are priced one by one. FindCut proves that no plan
+// can meet the demands (a short region), and WithShortfall and
+// SolvePricedShortfall let demand go unmet at a price.
 package flow
