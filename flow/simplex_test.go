@@ -756,6 +756,8 @@ func TestSolveRepair(t *testing.T) {
 		{"transport sparse", netgen.Transport(22, 400, 300, 4000, 1000)},
 		{"general", netgen.General(23, 3000, 20000, 150, 150, 0.3, 100)},
 		{"general capacitated", netgen.General(24, 800, 6000, 40, 40, 1, 1000)},
+		// Dense enough for the search by sweeps (denseLanes).
+		{"transport complete capacitated, dense", capToMin(netgen.Transport(25, 900, 900, 0, 1000))},
 	}
 	for _, c := range cases {
 		t.Run(c.name, func(t *testing.T) {
@@ -792,6 +794,161 @@ func TestSolveRepair(t *testing.T) {
 				t.Logf("seed %d: %d pivots (cold %d, from the optimum %d)", seed, w.Pivots, sol.Pivots, same.Pivots)
 			}
 		})
+	}
+}
+
+// denseLanes is the least number of lanes (with at least 64 per node) for
+// which a warm start searches by sweeps instead of lists (flow's
+// sweepMinLanes and sweepDegree).
+const denseLanes = 3 << 18
+
+// capToMin gives every lane of a transportation network the capacity
+// min(supply of its origin, demand of its destination), the bound used by
+// the transport family of ../shared/peers/gen.py (its docstring): no plan
+// loses anything by it, and lanes at capacity become common.
+func capToMin(n *flow.Network) *flow.Network {
+	for a := range n.Tail {
+		n.Upper[a] = min(n.Supply[n.Tail[a]], -n.Supply[n.Head[a]])
+	}
+	return n
+}
+
+// replicate returns n with every lane split into k parallel lanes of the
+// same rate whose minimums and capacities add up to the lane's (k lanes
+// without capacity for one without): the same problem, with k·|E| lanes. A
+// plan of n maps to one of the copy (splitPlan) of the same cost, and back
+// by adding the copies up.
+func replicate(n *flow.Network, k int) *flow.Network {
+	m := len(n.Tail) * k
+	r := &flow.Network{
+		Nodes:      n.Nodes,
+		Supply:     n.Supply,
+		Tail:       make([]flow.NodeID, 0, m),
+		Head:       make([]flow.NodeID, 0, m),
+		Lower:      make([]int64, 0, m),
+		Upper:      make([]int64, 0, m),
+		Rate:       make([]int64, 0, m),
+		QtyPlaces:  n.QtyPlaces,
+		RatePlaces: n.RatePlaces,
+	}
+	part := func(v int64, i int) int64 {
+		q := v / int64(k)
+		if int64(i) < v%int64(k) {
+			q++
+		}
+		return q
+	}
+	for a := range n.Tail {
+		for i := 0; i < k; i++ {
+			r.Tail = append(r.Tail, n.Tail[a])
+			r.Head = append(r.Head, n.Head[a])
+			r.Rate = append(r.Rate, n.Rate[a])
+			r.Lower = append(r.Lower, part(n.Lower[a], i))
+			u := n.Upper[a]
+			if u != noLimit {
+				u = part(u, i)
+			}
+			r.Upper = append(r.Upper, u)
+		}
+	}
+	return r
+}
+
+// splitPlan maps plan x of n to the copy replicate(n, k) (r): each copy
+// gets its minimum, and the rest fills the copies in order up to their
+// capacities.
+func splitPlan(r *flow.Network, k int, x []int64) []int64 {
+	y := make([]int64, len(r.Tail))
+	for a, f := range x {
+		rest := f
+		for i := a * k; i < (a+1)*k; i++ {
+			y[i] = r.Lower[i]
+			rest -= r.Lower[i]
+		}
+		for i := a * k; i < (a+1)*k && rest > 0; i++ {
+			d := rest
+			if r.Upper[i] != noLimit {
+				d = min(d, r.Upper[i]-y[i])
+			}
+			y[i] += d
+			rest -= d
+		}
+	}
+	return y
+}
+
+// TestSolveRepairDense exercises the warm start by sweeps, which only
+// networks of at least denseLanes lanes use: small random networks (all
+// features of randnet: minimums, capacities, excess supply, negative
+// rates, decimal places) with every lane split into parallel lanes up to
+// that size (the same problem), so that the LP oracle and a cold solve
+// handle the small network. Warm solves of the large one, from a random
+// feasible plan and from the small network's optimum moved around 10
+// cycles (netgen.Perturb, as in the benchmarks), must reach the oracle's
+// status and the cold cost and pass the independent checker.
+func TestSolveRepairDense(t *testing.T) {
+	rng := rand.New(rand.NewPCG(20241202, 1))
+	counts := map[oracle.Status]int{}
+	for i := 0; i < 8; i++ {
+		o := randnet.RandomOptions(rng)
+		o.Lanes = 8 + rng.IntN(24)
+		o.Infeasible = false
+		if i%4 == 3 {
+			// Negative cycles of lanes without capacity: unbounded.
+			o.Kind, o.NegativeRates, o.CapFrac = randnet.General, true, 0
+		}
+		small := randnet.Network(rng, o)
+		k := (denseLanes + len(small.Tail) - 1) / len(small.Tail)
+		n := replicate(small, k)
+		name := fmt.Sprintf("case %d (%d nodes, %d lanes x %d)", i, len(n.Nodes), len(small.Tail), k)
+		res, err := oracle.MinCost(small)
+		if err != nil {
+			t.Fatalf("%s: oracle: %v", name, err)
+		}
+		sol, err := flow.Solve(small, flow.SolveOptions{})
+		if err != nil {
+			t.Fatalf("%s: %v", name, err)
+		}
+		counts[res.Status]++
+		if sol.Status.String() != res.Status.String() {
+			t.Fatalf("%s: cold status %v, oracle %v", name, sol.Status, res.Status)
+		}
+		x, ok := randnet.FeasiblePlan(rng, small)
+		if !ok {
+			continue
+		}
+		starts := [][]int64{splitPlan(n, k, x)}
+		if sol.Status == flow.Optimal {
+			// The optimum, with each tree lane's first copy in the tree.
+			y := splitPlan(n, k, sol.Flow)
+			inTree := make([]bool, len(n.Tail))
+			for a, in := range sol.InTree {
+				inTree[a*k] = in
+			}
+			starts = append(starts, netgen.Perturb(uint64(i), n, y, inTree, 10))
+		}
+		for j, y := range starts {
+			w, err := flow.Solve(n, flow.SolveOptions{Start: y})
+			if err != nil {
+				t.Fatalf("%s, start %d: %v", name, j, err)
+			}
+			if !w.WarmStarted || w.Status != sol.Status {
+				t.Fatalf("%s, start %d: warm %v, status %v, cold %v", name, j, w.WarmStarted, w.Status, sol.Status)
+			}
+			switch w.Status {
+			case flow.Optimal:
+				checkOptimal(t, n, w)
+				if w.Cost.Cmp(sol.Cost) != 0 || !oracle.SameCost(w.Cost, n.QtyPlaces+n.RatePlaces, res) {
+					t.Fatalf("%s, start %d: warm cost %s, cold %s, oracle %g", name, j, w.Cost.Format(0), sol.Cost.Format(0), res.CostScaled)
+				}
+			case flow.Unbounded:
+				checkCycle(t, n, w.Cycle)
+			}
+		}
+	}
+	t.Logf("statuses %v", counts)
+	if counts[oracle.Optimal] < 3 || counts[oracle.Unbounded] < 1 {
+		t.Errorf("statuses %v: the cases no longer cover optimal and unbounded", counts)
 	}
 }
 
