@@ -411,6 +411,11 @@ func setLess(a, b []int) bool {
 	return false
 }
 
+// denseDegree is the number of lanes per node from which the priced
+// network is solved from scratch rather than from the network's own
+// attempt (measured: BENCHMARKS.md).
+const denseDegree = 64
+
 // minBoundedLanes is the number of single lanes to solve on an infeasible
 // network from which bounding them first pays.
 const minBoundedLanes = 8
@@ -570,7 +575,18 @@ func pricedBasis(n *flow.Network, cands []flow.Candidate) (*flow.Basis, int, flo
 			return nil, 0, none, nil
 		}
 	}
-	sol, unmet, err := flow.SolvePricedShortfall(n, price)
+	// The network's own solve ends with a plan that delivers all it can,
+	// usually as cheaply as possible: the priced network starts from it.
+	// That pays where the priced network's cold solve is slow (about 2x
+	// the network's on sparse and general networks); on dense ones (many
+	// lanes per node) the cold solve is cheaper than the two.
+	var start []int64
+	if n.NumLanes() < denseDegree*n.NumNodes() {
+		if own, err := flow.Solve(n, flow.SolveOptions{Keep: true}); err == nil && own.Status == flow.Infeasible {
+			start = own.Attempt
+		}
+	}
+	sol, unmet, err := flow.SolvePricedShortfall(n, price, start)
 	if err != nil || sol.Status != flow.Optimal {
 		return nil, 0, none, nil
 	}

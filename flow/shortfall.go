@@ -70,18 +70,27 @@ func WithShortfall(n *Network, price int64, prices []int64) (*Network, error) {
 // optimum's basis (SolveOptions.Keep): lanes 0..NumLanes()-1 are n's, the
 // next unmet ones (one per destination, in node order, from the virtual
 // origin, node NumNodes() of n). The priced network is built without lane
-// names (it is never shown), which spares a string per lane. It returns the
-// solution and the number of unmet lanes. Time: one cold solve of the
-// priced network plus O(|V|+|E|).
-func SolvePricedShortfall(n *Network, price int64) (*Solution, int, error) {
+// names (it is never shown), which spares a string per lane. start, if not
+// nil, is a plan of n (such as Solution.Attempt) extended by ExtendPlan
+// into a warm start; when that is not feasible for the priced network the
+// solve starts from scratch. It returns the solution and the number of
+// unmet lanes. Time: one solve of the priced network plus O(|V|+|E|).
+func SolvePricedShortfall(n *Network, price int64, start []int64) (*Solution, int, error) {
 	if price < 0 {
 		return nil, 0, fmt.Errorf("flow: shortfall price %d is negative", price)
+	}
+	if start != nil && len(start) != len(n.Tail) {
+		return nil, 0, fmt.Errorf("flow: priced shortfall: start has %d flows for %d lanes", len(start), len(n.Tail))
 	}
 	ext, err := withShortfall(n, price, nil, false)
 	if err != nil {
 		return nil, 0, err
 	}
-	sol, err := Solve(ext, SolveOptions{Keep: true})
+	opt := SolveOptions{Keep: true}
+	if start != nil {
+		opt.Start = ExtendPlan(n, ext, start)
+	}
+	sol, err := Solve(ext, opt)
 	if err != nil {
 		return nil, 0, err
 	}

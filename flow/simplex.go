@@ -60,8 +60,8 @@ type SolveOptions struct {
 	// (flow moved times reduced cost), not recomputed.
 	Progress func(pivots int64, cost Wide)
 	// Keep asks for the final basis in Solution.Basis (when Optimal), to
-	// re-solve with lanes added (Basis.Add). The solver's state is then
-	// kept alive with the Solution.
+	// re-solve with lanes added (Basis.Add), and for Solution.Attempt when
+	// Infeasible. The solver's state is then kept alive with the Solution.
 	Keep bool
 }
 
@@ -101,6 +101,15 @@ type Solution struct {
 	InTree []bool
 	// Basis is the final basis when Optimal and SolveOptions.Keep was set.
 	Basis *Basis
+	// Attempt, when Infeasible and SolveOptions.Keep was set, is the
+	// solver's last plan, one flow per lane within the lane bounds: it
+	// delivers as much of the demand as any plan can (all but Shortfall),
+	// origins may keep supply, and some other nodes may be left with flow
+	// they cannot pass on. When the solver priced the missing flow
+	// (|V|·maxRate fits int64 and supply covers demand) it is usually a
+	// cheapest such plan: a good start for the network with priced unmet
+	// demand (SolvePricedShortfall).
+	Attempt []int64
 }
 
 // Arc states. An arc that is not in the tree is at its lower bound
@@ -201,6 +210,8 @@ type simplex struct {
 	artTotal int64
 
 	cycle []CycleStep
+
+	keep bool // SolveOptions.Keep
 }
 
 // ends returns the tail and head of arc a.
@@ -364,6 +375,7 @@ func Solve(n *Network, opt SolveOptions) (*Solution, error) {
 		return nil, err
 	}
 	s.progress = opt.Progress
+	s.keep = opt.Keep
 	sol := &Solution{}
 
 	warm, proved := false, false
@@ -1349,6 +1361,19 @@ func (s *simplex) infeasible(sol *Solution) (*Solution, error) {
 	sol.Status = Infeasible
 	sol.Shortfall = short
 	sol.Pivots = s.pivots
+	if s.keep {
+		sol.Attempt = make([]int64, s.m)
+		for a := range sol.Attempt {
+			x := s.flow[a]
+			if s.shifted {
+				x += s.net.Lower[a] // <= Upper, or the flow overflowed
+				if x < s.flow[a] {
+					return nil, s.flowOverflow(int32(a))
+				}
+			}
+			sol.Attempt[a] = x
+		}
+	}
 	return sol, nil
 }
 
