@@ -41,13 +41,25 @@ type Change struct {
 	CostChange flow.Wide
 }
 
+// Progress holds callbacks for a long solve (either may be nil): Cost
+// with the number of pivots and the current plan's cost once the flows
+// meet every supply and demand, Placing with the number of pivots and the
+// quantity not yet placed before that (see flow.SolveOptions).
+type Progress struct {
+	Cost    func(pivots int64, cost flow.Wide)
+	Placing func(pivots int64, unplaced int64)
+}
+
 // Optimize solves the network with the primal network simplex of package
 // flow, starting from the plan x when x is feasible (x may be nil), and
 // checks the result's certificate. progress, if not nil, is called now and
-// then with the number of pivots and the current cost (see
-// flow.SolveOptions). Cost: one solve plus O(|V|+|E|).
-func Optimize(n *flow.Network, x []int64, progress func(pivots int64, cost flow.Wide)) (*Optimum, error) {
-	sol, err := flow.Solve(n, flow.SolveOptions{Start: x, Progress: progress})
+// then. Cost: one solve plus O(|V|+|E|).
+func Optimize(n *flow.Network, x []int64, progress *Progress) (*Optimum, error) {
+	opt := flow.SolveOptions{Start: x}
+	if progress != nil {
+		opt.Progress, opt.Placing = progress.Cost, progress.Placing
+	}
+	sol, err := flow.Solve(n, opt)
 	if err != nil {
 		return nil, err
 	}

@@ -59,6 +59,13 @@ type SolveOptions struct {
 	// counted but not reported. The cost is kept up to date per pivot
 	// (flow moved times reduced cost), not recomputed.
 	Progress func(pivots int64, cost Wide)
+	// Placing, if non-nil, is called every 16384 pivots while the flows
+	// do not yet meet every supply and demand (a cold solve's first
+	// phase), with the number of pivots so far and the quantity not yet
+	// carried from where it is supplied to where it is demanded (quantity
+	// scale; half the total imbalance over the nodes, lane minimums
+	// counted as carried). It never increases from one call to the next.
+	Placing func(pivots int64, unplaced int64)
 	// Keep asks for the final basis in Solution.Basis (when Optimal), to
 	// re-solve with lanes added (Basis.Add), and for Solution.Attempt when
 	// Infeasible. The solver's state is then kept alive with the Solution.
@@ -198,6 +205,7 @@ type simplex struct {
 	treeSet  bool
 	pivots   int64
 	progress func(int64, Wide)
+	placing  func(int64, int64)
 	// drift bounds |p(R)| after shifts of the rest of the tree.
 	drift int64
 
@@ -374,7 +382,7 @@ func Solve(n *Network, opt SolveOptions) (*Solution, error) {
 	if err != nil {
 		return nil, err
 	}
-	s.progress = opt.Progress
+	s.progress, s.placing = opt.Progress, opt.Placing
 	s.keep = opt.Keep
 	sol := &Solution{}
 
@@ -1140,8 +1148,13 @@ func (s *simplex) pivot(in int32, dir int8, r int64) (bool, error) {
 			}
 		}
 	}
-	if s.progress != nil && s.pivots&(progressEvery-1) == 0 && s.objOK && s.artTotal == 0 {
-		s.progress(s.pivots, s.obj)
+	if s.pivots&(progressEvery-1) == 0 {
+		switch {
+		case s.artTotal == 0 && s.objOK && s.progress != nil:
+			s.progress(s.pivots, s.obj)
+		case s.artTotal > 0 && s.placing != nil:
+			s.placing(s.pivots, s.artTotal/2)
+		}
 	}
 
 	if side == 0 {

@@ -718,6 +718,33 @@ func TestSolveProgress(t *testing.T) {
 	check(t, calls, sol, false, nil)
 	t.Logf("cold: %d calls, %d pivots", len(calls), sol.Pivots)
 
+	// Placing, on a general network whose first phase is long: it
+	// reports what is still to place, never rising, never above the total
+	// demand, before any cost is reported, and every reporting point (a
+	// multiple of 2^14 pivots) goes to exactly one of the two callbacks.
+	g := netgen.General(9, 10000, 100000, 500, 500, 0.3, 1000)
+	type placed struct{ pivots, left int64 }
+	var places []placed
+	_, demand, _ := g.Totals()
+	calls = nil
+	gs, err := flow.Solve(g, flow.SolveOptions{Progress: record, Placing: func(p, left int64) { places = append(places, placed{p, left}) }})
+	if err != nil {
+		t.Fatal(err)
+	}
+	checkOptimal(t, g, gs)
+	t.Logf("general: %d cost calls, %d placing calls, %d pivots", len(calls), len(places), gs.Pivots)
+	if len(places) == 0 || int64(len(places)+len(calls)) != gs.Pivots/(1<<14) {
+		t.Fatalf("%d placing and %d progress calls for %d pivots", len(places), len(calls), gs.Pivots)
+	}
+	for i, pl := range places {
+		if pl.left <= 0 || pl.left > demand || (i > 0 && (pl.left > places[i-1].left || pl.pivots <= places[i-1].pivots)) {
+			t.Fatalf("placing call %d: %+v after %v (demand %d)", i, pl, places[:i], demand)
+		}
+		if len(calls) > 0 && pl.pivots >= calls[0].pivots {
+			t.Fatalf("placing call %d at %d pivots after the first cost call at %d", i, pl.pivots, calls[0].pivots)
+		}
+	}
+
 	rev := *n
 	rev.Rate = make([]int64, len(n.Rate))
 	for a, r := range n.Rate {

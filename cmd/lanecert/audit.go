@@ -186,7 +186,7 @@ func runAudit(o *auditOptions, s streams) error {
 	var opt *dual.Optimum
 	if !o.noSolve {
 		prog := progressTo(s.err)
-		opt, err = dual.Optimize(in.Net, start, prog.callback(in.Net.QtyPlaces+in.Net.RatePlaces))
+		opt, err = dual.Optimize(in.Net, start, prog.callbacks(in.Net))
 		prog.done()
 		if err != nil {
 			return err

@@ -524,3 +524,36 @@ func TestGridAudit(t *testing.T) {
 		t.Fatalf("exit %d, got\n%s", code, out)
 	}
 }
+
+// TestProgressLines: the progress line shows the quantity still to place
+// while a first plan is sought, then the cost, each overwriting the last,
+// and done clears it; a writer that is not a terminal gets nothing.
+func TestProgressLines(t *testing.T) {
+	f, err := os.CreateTemp(t.TempDir(), "progress")
+	if err != nil {
+		t.Fatal(err)
+	}
+	defer f.Close()
+	if progressTo(f) != nil {
+		t.Fatal("a regular file was taken for a terminal")
+	}
+	n := &flow.Network{QtyPlaces: 3, RatePlaces: 2}
+	p := &progress{f: f}
+	cb := p.callbacks(n)
+	cb.Placing(16384, 12500)
+	cb.Cost(32768, flow.WideFrom(1234567))
+	p.done()
+	b, err := os.ReadFile(f.Name())
+	if err != nil {
+		t.Fatal(err)
+	}
+	want := "\r\033[Klanecert: solving, 16384 pivots, finding a first plan: 12.500 still to place" +
+		"\r\033[Klanecert: solving, 32768 pivots, cost 12.34567\r\033[K"
+	if string(b) != want {
+		t.Fatalf("progress output %q, want %q", b, want)
+	}
+	var none *progress
+	if none.callbacks(n) != nil {
+		t.Fatal("callbacks without a terminal")
+	}
+}

@@ -5,6 +5,7 @@ import (
 	"io"
 	"os"
 
+	"lanecert/dual"
 	"lanecert/flow"
 )
 
@@ -28,15 +29,22 @@ func progressTo(w io.Writer) *progress {
 	return &progress{f: f}
 }
 
-// callback returns the solver's progress callback (nil when p is nil);
-// places is the network's cost scale.
-func (p *progress) callback(places int) func(int64, flow.Wide) {
+// callbacks returns the solver's progress callbacks (nil when p is nil)
+// for network n: while a first plan is sought, the quantity still to
+// place; then the current cost.
+func (p *progress) callbacks(n *flow.Network) *dual.Progress {
 	if p == nil {
 		return nil
 	}
-	return func(pivots int64, cost flow.Wide) {
-		p.written = true
-		fmt.Fprintf(p.f, "\rlanecert: solving, %d pivots, cost %s", pivots, cost.Format(places))
+	return &dual.Progress{
+		Cost: func(pivots int64, cost flow.Wide) {
+			p.written = true
+			fmt.Fprintf(p.f, "\r\033[Klanecert: solving, %d pivots, cost %s", pivots, cost.Format(n.QtyPlaces+n.RatePlaces))
+		},
+		Placing: func(pivots, unplaced int64) {
+			p.written = true
+			fmt.Fprintf(p.f, "\r\033[Klanecert: solving, %d pivots, finding a first plan: %s still to place", pivots, n.FormatQty(unplaced))
+		},
 	}
 }
 

@@ -115,7 +115,7 @@ func runPlan(o *planOptions, s streams) error {
 		}
 	}
 	prog := progressTo(s.err)
-	opt, err := dual.Optimize(in.Net, start, prog.callback(in.Net.QtyPlaces+in.Net.RatePlaces))
+	opt, err := dual.Optimize(in.Net, start, prog.callbacks(in.Net))
 	prog.done()
 	if err != nil {
 		return err
