@@ -92,15 +92,7 @@ func TestExtendAgainstBruteForce(t *testing.T) {
 		if i%2 == 0 {
 			// Squeeze capacities so that demand often cannot be met, but
 			// new lanes can restore it.
-			for e := range n.Upper {
-				if rng.IntN(2) == 0 {
-					u := n.Upper[e]
-					if u == flow.NoLimit {
-						u = 40
-					}
-					n.Upper[e] = max(n.Lower[e], u/4)
-				}
-			}
+			randnet.Squeeze(rng, n)
 		}
 		var cs []flow.Candidate
 		withFixed := i%3 != 0
@@ -211,15 +203,7 @@ func TestSingleBounds(t *testing.T) {
 		if n.NumNodes() < 2 {
 			continue
 		}
-		for e := range n.Upper {
-			if rng.IntN(2) == 0 {
-				u := n.Upper[e]
-				if u == flow.NoLimit {
-					u = 40
-				}
-				n.Upper[e] = max(n.Lower[e], u/4)
-			}
-		}
+		randnet.Squeeze(rng, n)
 		cut, err := flow.FindCut(n)
 		if err != nil {
 			t.Fatal(err)

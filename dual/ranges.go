@@ -817,20 +817,7 @@ func (h *pieceHeap) pop() pieceItem {
 	last := len(q) - 1
 	q[0] = q[last]
 	q = q[:last]
-	for i := 0; ; {
-		c := 2*i + 1
-		if c >= last {
-			break
-		}
-		if c+1 < last && q[c+1].less(q[c]) {
-			c++
-		}
-		if !q[c].less(q[i]) {
-			break
-		}
-		q[i], q[c] = q[c], q[i]
-		i = c
-	}
+	q.down(0)
 	*h = q
 	return top
 }

@@ -332,15 +332,7 @@ func TestSolvePricedShortfall(t *testing.T) {
 		o := randnet.RandomOptions(rng)
 		o.NegativeRates = false
 		n := randnet.Network(rng, o)
-		for e := range n.Upper {
-			if rng.IntN(2) == 0 {
-				u := n.Upper[e]
-				if u == flow.NoLimit {
-					u = 40
-				}
-				n.Upper[e] = max(n.Lower[e], u/4)
-			}
-		}
+		randnet.Squeeze(rng, n)
 		sol, err := flow.Solve(n, flow.SolveOptions{Keep: true})
 		if err != nil {
 			t.Fatal(err)

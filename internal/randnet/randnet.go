@@ -302,3 +302,19 @@ func pushPath(rng *rand.Rand, n *flow.Network, adj *flow.Adjacency, x []int64, v
 		x[a] += amount
 	}
 }
+
+// Squeeze cuts the capacity of about half of n's lanes (chosen by rng) to a
+// quarter (a lane without capacity gets 10), never below its minimum, so
+// that demand often cannot be met while new lanes could restore it. n is
+// changed in place.
+func Squeeze(rng *rand.Rand, n *flow.Network) {
+	for e := range n.Upper {
+		if rng.IntN(2) == 0 {
+			u := n.Upper[e]
+			if u == flow.NoLimit {
+				u = 40
+			}
+			n.Upper[e] = max(n.Lower[e], u/4)
+		}
+	}
+}

@@ -270,3 +270,30 @@ func TestKindString(t *testing.T) {
 		}
 	}
 }
+
+func TestSqueeze(t *testing.T) {
+	rng := rand.New(rand.NewPCG(4, 4))
+	cut := 0
+	for i := 0; i < 50; i++ {
+		n := Network(rng, RandomOptions(rng))
+		before := append([]int64(nil), n.Upper...)
+		Squeeze(rng, n)
+		for e, u := range n.Upper {
+			was := before[e]
+			if u == was {
+				continue
+			}
+			cut++
+			want := was / 4
+			if was == flow.NoLimit {
+				want = 10
+			}
+			if u != max(want, n.Lower[e]) {
+				t.Fatalf("lane %d: capacity %d -> %d (minimum %d)", e, was, u, n.Lower[e])
+			}
+		}
+	}
+	if cut == 0 {
+		t.Fatal("no capacity was cut")
+	}
+}
