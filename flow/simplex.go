@@ -68,7 +68,9 @@ type SolveOptions struct {
 	Placing func(pivots int64, unplaced int64)
 	// Keep asks for the final basis in Solution.Basis (when Optimal), to
 	// re-solve with lanes added (Basis.Add), and for Solution.Attempt when
-	// Infeasible. The solver's state is then kept alive with the Solution.
+	// Infeasible. The solver's state is then kept alive with the Solution;
+	// Solution.Flow may share its flow array, so the plan must not be
+	// changed while the Basis is in use.
 	Keep bool
 }
 
