@@ -233,6 +233,7 @@ func (b *Basis) reset(extra []Candidate) *simplex {
 	w.size, w.last, w.up = b.size, b.last, b.up
 	w.xsrc, w.xtgt, w.xcost, w.xcap = b.xsrc, b.xtgt, b.xcost, b.xcap
 	w.na = s.na + k
+	w.next = s.na // block search starts at the extra lanes
 	w.pivots = 0
 	w.progress = nil
 	w.cycle = nil
