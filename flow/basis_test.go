@@ -137,6 +137,8 @@ func TestBasisAddStale(t *testing.T) {
 	if err != nil {
 		t.Fatal(err)
 	}
+	// By hand: the new lane (rate 4, capacity 3) takes 3 of the 5 units,
+	// the old one (rate 10) the other 2.
 	if first.Extra[0] != 3 || first.Cost.Cmp(flow.WideFrom(3*4+2*10)) != 0 {
 		t.Fatalf("first add: extra %v cost %s", first.Extra, first.Cost.Format(0))
 	}
