@@ -162,3 +162,16 @@ func (c *errs) add(line, col int, field, text string, err error) {
 }
 
 func (c *errs) full() bool { return len(c.list) >= maxKept }
+
+// stop returns the error that ends reading c's file at a CSV syntax error
+// err, together with the errors collected before it (sorted).
+func (c *errs) stop(err error) error {
+	err = csvError(c.file, err)
+	var pe *ParseError
+	if len(c.list) == 0 || !errors.As(err, &pe) {
+		return err
+	}
+	pe.Sheet = c.sheet
+	c.list = append(c.list, pe)
+	return c.list.sortAndErr()
+}

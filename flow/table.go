@@ -230,15 +230,7 @@ func (t *table) each(fn func(row *row)) error {
 			return nil
 		}
 		if err != nil {
-			// Keep the errors found before the syntax error.
-			err = csvError(t.file, err)
-			var pe *ParseError
-			if len(t.e.list) == 0 || !errors.As(err, &pe) {
-				return err
-			}
-			pe.Sheet = t.sheet
-			t.e.list = append(t.e.list, pe)
-			return t.e.list.sortAndErr()
+			return t.e.stop(err) // with the errors found before it
 		}
 		if len(rec) == 1 && strings.TrimSpace(rec[0]) == "" {
 			continue // blank line

@@ -103,7 +103,7 @@ func ReadGrid(r io.Reader, file string, opt TableOptions) (*Network, error) {
 			break
 		}
 		if err != nil {
-			return nil, csvError(file, err)
+			return nil, g.e.stop(err) // with the errors found before it
 		}
 		line, _ := cr.FieldPos(0)
 		lastLine = line
@@ -387,7 +387,7 @@ func ReadGridPlan(r io.Reader, file string, n *Network, opt TableOptions) (*RawP
 			break
 		}
 		if err != nil {
-			return nil, csvError(file, err)
+			return nil, g.e.stop(err) // with the errors found before it
 		}
 		line, col := cr.FieldPos(0)
 		lastLine = line

@@ -146,6 +146,8 @@ func TestGridErrors(t *testing.T) {
 		{"no origins", "x,A,supply\ndemand,1,\n", 2, 0, ErrEmpty, "no origin"},
 		{"corner total", "x,A,supply\nO,1,5\ndemand,5,6\n", 3, 10, nil, "add up to 5"},
 		{"short header", "x,supply\n", 1, 0, ErrSyntax, "at least one destination"},
+		// A bad rate, then a CSV syntax error: both, the rate first.
+		{"error before a syntax error", "x,A,supply\nO,abc,5\nP,1\"x,5\ndemand,1,\n", 2, 3, ErrSyntax, `rate "abc"`},
 	}
 	for _, tc := range tests {
 		t.Run(tc.name, func(t *testing.T) {
