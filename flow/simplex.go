@@ -2213,160 +2213,29 @@ func partMembers(comp []int32, nn int) (cstart, members []int32) {
 func (s *simplex) completeTree(forest, comp []int32, rho []int64, lists [2]partLists) []int32 {
 	nn := s.nNodes
 	cstart, members := partMembers(comp, nn)
-
-	// Label-correcting search over the parts (indexed by their smallest
-	// node): lab is the part's offset (p(v) = rho[v] + lab[part]), par the
-	// arc to its parent part, at the node where that arc joins it. The
-	// active parts of a search form a tree kept as a preorder list (tnx,
-	// tpv, dep) so that a part whose offset rises can drop its subtree
-	// (whose offsets are then out of date) and a cycle of negative cost is
-	// seen as a part rising below itself.
-	// Hot data packed per node (part, rho) and per part (offset, search
-	// number, flags): two cache lines per arc scanned.
-	type nodeData struct {
-		rho  int64
-		comp int32
-	}
-	type partData struct {
-		lab      int64
-		srch     int32 // search number; 0: not reached
-		act, inq bool
-	}
-	nd := make([]nodeData, nn)
-	for v := range nd {
-		nd[v] = nodeData{rho[v], comp[v]}
-	}
-	ps := make([]partData, nn)
-	par := make([]int32, nn)
-	at := make([]int32, nn)
-	tnx := make([]int32, nn)
-	tpv := make([]int32, nn)
-	dep := make([]int32, nn)
-	ppart := make([]int32, nn) // parent part
-	queue := make([]int32, nn+1)
-	qh, qt := 0, 0
-	push := func(c int32) {
-		ps[c].inq = true
-		queue[qt] = c
-		if qt++; qt == len(queue) {
-			qt = 0
-		}
-	}
-	improve := !s.checked
-	work, limit := 0, 8*(len(lists[0].list)+len(lists[1].list)+nn)+1024
-	cur := int32(0)
-	state := s.state
-	var refusedArcs []int32
-	// detach drops the subtree of d from the tree unless c is in it
-	// (found by climbing from c to the depth of d).
-	detach := func(d, c int32) bool {
-		if dep[c] > dep[d] {
-			y := c
-			for dep[y] > dep[d] {
-				y = ppart[y]
-			}
-			if y == d {
-				return false
-			}
-		}
-		y := tnx[d]
-		for y >= 0 && dep[y] > dep[d] {
-			y = tnx[y]
-		}
-		p := tpv[d]
-		if p >= 0 {
-			tnx[p] = y
-		}
-		if y >= 0 {
-			tpv[y] = p
-		}
-		for z := d; z != y; z = tnx[z] {
-			ps[z].act = false
-		}
-		return true
-	}
+	q := newPartSearch(comp, rho, s.state, !s.checked)
+	q.limit = 8*(len(lists[0].list)+len(lists[1].list)+nn) + 1024
 	scan := func(c int32) {
 		for _, u := range members[cstart[c]:cstart[c+1]] {
-			pu := nd[u].rho + ps[c].lab
+			pu := q.nd[u].rho + q.ps[c].lab
 			for k := range lists {
-				pl := &lists[k]
-				if pl.list == nil {
-					continue
-				}
-				arcs := pl.list[pl.start[u]:pl.end[u]]
-				work += len(arcs)
-				for _, b := range arcs {
-					a, v, st := b.arc, b.from, stateLower
-					if v < 0 {
-						v, st = ^v, stateUpper
-					}
-					// (state[a] != st: a stale entry, checked only
-					// where it matters.)
-					nv := &nd[v]
-					d := nv.comp
-					if d == c {
-						// Inside the part: the forest fixes both ends;
-						// the wrong sign of reduced cost means a cycle
-						// of negative cost.
-						if improve && nv.rho < pu-ps[c].lab+b.w && state[a] == st && len(refusedArcs) < maxRefused {
-							refusedArcs = append(refusedArcs, a)
-						}
-						continue
-					}
-					pd := &ps[d]
-					sd := pd.srch
-					if sd != 0 && sd != cur {
-						continue
-					}
-					nl := pu + b.w - nv.rho
-					if sd == cur && (!improve || nl <= pd.lab) {
-						continue
-					}
-					if state[a] != st {
-						continue
-					}
-					if sd == cur {
-						if pd.act && !detach(d, c) {
-							if len(refusedArcs) < maxRefused {
-								refusedArcs = append(refusedArcs, a)
-							}
-							continue // a cycle of negative cost
-						}
-					}
-					pd.lab, pd.srch, pd.act = nl, cur, true
-					par[d], at[d], ppart[d] = a, v, c
-					nx := tnx[c]
-					tnx[c], tpv[d], tnx[d] = d, c, nx
-					if nx >= 0 {
-						tpv[nx] = d
-					}
-					dep[d] = dep[c] + 1
-					if !pd.inq {
-						push(d)
-					}
+				if pl := &lists[k]; pl.list != nil {
+					q.scanList(pl.list[pl.start[u]:pl.end[u]], c, pu)
 				}
 			}
 		}
-		if work > limit {
-			improve = false
+		if q.work > q.limit {
+			q.improve = false
 		}
 	}
 	search := func(r int32) {
-		cur++
-		v0 := r
-		ps[r].lab, ps[r].srch, ps[r].act = -rho[v0], cur, true
-		par[r], at[r] = -1, v0
-		tnx[r], tpv[r], dep[r] = -1, -1, 0
-		push(r)
-		for qh != qt {
-			c := queue[qh]
-			if qh++; qh == len(queue) {
-				qh = 0
+		q.start(r, -rho[r])
+		for {
+			c := q.next()
+			if c < 0 {
+				break
 			}
-			ps[c].inq = false
-			if ps[c].act {
-				scan(c)
-			}
+			scan(c)
 		}
 	}
 	if nn > 0 {
@@ -2386,7 +2255,7 @@ func (s *simplex) completeTree(forest, comp []int32, rho []int64, lists [2]partL
 	// searches of their own, hanging from R.
 	for pass := 0; pass < 2; pass++ {
 		for v := int32(0); v < int32(nn); v++ {
-			if comp[v] == v && !ps[v].act {
+			if comp[v] == v && !q.ps[v].act {
 				search(v)
 			}
 		}
@@ -2399,15 +2268,211 @@ func (s *simplex) completeTree(forest, comp []int32, rho []int64, lists [2]partL
 		if comp[v] != v {
 			continue
 		}
-		if par[v] >= 0 {
-			tree = append(tree, par[v])
+		if q.par[v] >= 0 {
+			tree = append(tree, q.par[v])
 		} else {
-			tree = append(tree, int32(s.artStart)+at[v])
+			tree = append(tree, int32(s.artStart)+q.at[v])
 		}
 	}
 	s.setTree(tree)
-	slices.Sort(refusedArcs)
-	return slices.Compact(refusedArcs)
+	slices.Sort(q.refused)
+	return slices.Compact(q.refused)
+}
+
+// partSearch is the label-correcting search of completeTree over the
+// parts of a forest (indexed by their smallest node): a part's lab is
+// its offset (p(v) = rho[v] + lab[part]), par the arc to its parent part
+// and at the node where that arc joins it. The active parts of a search
+// form a tree kept as a preorder list (tnx, tpv, dep) so that a part
+// whose offset rises can drop its subtree (whose offsets are then out of
+// date) and a cycle of negative cost is seen as a part rising below
+// itself. Hot data is packed per node (part, rho) and per part (offset,
+// search number, flags): two cache lines per arc scanned.
+type partSearch struct {
+	nd    []searchNode
+	ps    []searchPart
+	par   []int32
+	at    []int32
+	ppart []int32 // parent part
+	tnx   []int32
+	tpv   []int32
+	dep   []int32
+	queue []int32
+	qh    int
+	qt    int
+	state []int8
+	// improve: offsets may still rise (false once work passed limit, or
+	// in checked arithmetic, where rho is all zero and the first tight
+	// arc found is kept).
+	improve     bool
+	work, limit int
+	cur         int32 // the current search's number
+	refused     []int32
+}
+
+type searchNode struct {
+	rho  int64
+	comp int32
+}
+
+type searchPart struct {
+	lab      int64
+	srch     int32 // search number; 0: not reached
+	act, inq bool
+}
+
+func newPartSearch(comp []int32, rho []int64, state []int8, improve bool) *partSearch {
+	nn := len(comp)
+	q := &partSearch{
+		nd:      make([]searchNode, nn),
+		ps:      make([]searchPart, nn),
+		par:     make([]int32, nn),
+		at:      make([]int32, nn),
+		ppart:   make([]int32, nn),
+		tnx:     make([]int32, nn),
+		tpv:     make([]int32, nn),
+		dep:     make([]int32, nn),
+		queue:   make([]int32, nn+1),
+		state:   state,
+		improve: improve,
+	}
+	for v := range q.nd {
+		q.nd[v] = searchNode{rho[v], comp[v]}
+	}
+	return q
+}
+
+// start begins a new search from part r with offset lab.
+func (q *partSearch) start(r int32, lab int64) {
+	q.cur++
+	q.ps[r].lab, q.ps[r].srch, q.ps[r].act = lab, q.cur, true
+	q.par[r], q.at[r] = -1, r
+	q.tnx[r], q.tpv[r], q.dep[r] = -1, -1, 0
+	q.push(r)
+}
+
+func (q *partSearch) push(c int32) {
+	q.ps[c].inq = true
+	q.queue[q.qt] = c
+	if q.qt++; q.qt == len(q.queue) {
+		q.qt = 0
+	}
+}
+
+// next returns the next active part to scan, or -1 when the queue is
+// empty.
+func (q *partSearch) next() int32 {
+	for q.qh != q.qt {
+		c := q.queue[q.qh]
+		if q.qh++; q.qh == len(q.queue) {
+			q.qh = 0
+		}
+		q.ps[c].inq = false
+		if q.ps[c].act {
+			return c
+		}
+	}
+	return -1
+}
+
+// scanList scans the arcs listed at a node of part c whose potential is
+// pu. The loop is kept small (raising a part is out of line) so that its
+// state stays in registers.
+func (q *partSearch) scanList(arcs []boundArc, c int32, pu int64) {
+	nd, ps, state := q.nd, q.ps, q.state
+	cur, improve := q.cur, q.improve
+	pc := pu - ps[c].lab // rho of the scanning node
+	q.work += len(arcs)
+	for _, b := range arcs {
+		a, v, st := b.arc, b.from, stateLower
+		if v < 0 {
+			v, st = ^v, stateUpper
+		}
+		// (state[a] != st: a stale entry, checked only where it
+		// matters.)
+		nv := nd[v]
+		d := nv.comp
+		if d == c {
+			// Inside the part: the forest fixes both ends; the wrong
+			// sign of reduced cost means a cycle of negative cost.
+			if improve && nv.rho < pc+b.w && state[a] == st {
+				q.refuse(a)
+			}
+			continue
+		}
+		pd := &ps[d]
+		sd := pd.srch
+		if sd != 0 && sd != cur {
+			continue
+		}
+		nl := pu + b.w - nv.rho
+		if sd == cur && (!improve || nl <= pd.lab) {
+			continue
+		}
+		if state[a] != st {
+			continue
+		}
+		q.raise(c, d, a, v, nl)
+	}
+}
+
+// refuse notes arc a as closing a cycle of negative cost (up to
+// maxRefused arcs).
+func (q *partSearch) refuse(a int32) {
+	if len(q.refused) < maxRefused {
+		q.refused = append(q.refused, a)
+	}
+}
+
+// raise gives part d offset nl, hung below part c by arc a (joining d at
+// node v), unless that closes a cycle of negative cost (refused).
+func (q *partSearch) raise(c, d, a, v int32, nl int64) {
+	pd := &q.ps[d]
+	if pd.srch == q.cur && pd.act && !q.detach(d, c) {
+		q.refuse(a)
+		return
+	}
+	pd.lab, pd.srch, pd.act = nl, q.cur, true
+	q.par[d], q.at[d], q.ppart[d] = a, v, c
+	nx := q.tnx[c]
+	q.tnx[c], q.tpv[d], q.tnx[d] = d, c, nx
+	if nx >= 0 {
+		q.tpv[nx] = d
+	}
+	q.dep[d] = q.dep[c] + 1
+	if !pd.inq {
+		q.push(d)
+	}
+}
+
+// detach drops the subtree of d from the search tree unless c is in it
+// (found by climbing from c to the depth of d).
+func (q *partSearch) detach(d, c int32) bool {
+	dep, tnx, tpv := q.dep, q.tnx, q.tpv
+	if dep[c] > dep[d] {
+		y := c
+		for dep[y] > dep[d] {
+			y = q.ppart[y]
+		}
+		if y == d {
+			return false
+		}
+	}
+	y := tnx[d]
+	for y >= 0 && dep[y] > dep[d] {
+		y = tnx[y]
+	}
+	p := tpv[d]
+	if p >= 0 {
+		tnx[p] = y
+	}
+	if y >= 0 {
+		tpv[y] = p
+	}
+	for z := d; z != y; z = tnx[z] {
+		q.ps[z].act = false
+	}
+	return true
 }
 
 // maxRefused caps the arcs closing cycles of negative cost that one
