@@ -528,8 +528,12 @@ func checkPage(t *testing.T, browser context.Context, path, shots, name string, 
 		}
 	}
 
+	checkTablesFit(t, ctx, "as opened")
+	checkDetails(t, ctx, d)
+	checkPrint(t, ctx)
 	checkSort(t, ctx, facts)
 	checkFilter(t, ctx)
+	checkTablesFit(t, ctx, "sorted and filtered")
 
 	errs, requests := w.snapshot()
 	for _, e := range errs {
@@ -539,6 +543,164 @@ func checkPage(t *testing.T, browser context.Context, path, shots, name string, 
 		t.Errorf("the page requested %s", u)
 	}
 	t.Logf("%s: verdict %s, %d lanes, %d nodes drawn, %d console errors, %d requests", name, verdict, facts.DrawnLanes, facts.DrawnNodes, len(errs), len(requests))
+}
+
+// tableFit is the width of one .table-wrap box and of what it holds, in
+// CSS pixels, as the browser laid them out.
+type tableFit struct {
+	Table       string `json:"table"`
+	ScrollWidth int    `json:"scrollWidth"`
+	ClientWidth int    `json:"clientWidth"`
+	PageScroll  int    `json:"pageScroll"`
+	PageClient  int    `json:"pageClient"`
+	Viewport    int    `json:"viewport"`
+}
+
+const fitJS = `(() => {
+  const root = document.documentElement;
+  return Array.from(document.querySelectorAll(".table-wrap")).map((w) => {
+    const t = w.querySelector("table");
+    return {table: t ? t.id : "", scrollWidth: w.scrollWidth, clientWidth: w.clientWidth,
+      pageScroll: root.scrollWidth, pageClient: root.clientWidth, viewport: window.innerWidth};
+  });
+})()`
+
+// checkTablesFit checks that at browserWidth every table fits its
+// .table-wrap box: the box has nothing to scroll sideways (scrollWidth is
+// at most clientWidth), and neither has the page. when says what the
+// reader did to the page before.
+func checkTablesFit(t *testing.T, ctx context.Context, when string) {
+	t.Helper()
+	fits, err := chromedp.Run(ctx, chromedp.Evaluate[[]tableFit](fitJS))
+	if err != nil {
+		t.Fatalf("measuring the tables: %v", err)
+	}
+	if len(fits) == 0 {
+		t.Fatal("no .table-wrap on the page")
+	}
+	for _, f := range fits {
+		if f.Viewport != browserWidth {
+			t.Errorf("window is %d CSS pixels wide, want %d", f.Viewport, browserWidth)
+		}
+		if f.ClientWidth <= 0 || f.ScrollWidth > f.ClientWidth {
+			t.Errorf("%s: #%s scrolls sideways at %d px: scrollWidth %d > clientWidth %d", when, f.Table, browserWidth, f.ScrollWidth, f.ClientWidth)
+		}
+		t.Logf("%s: #%s at %d px: scrollWidth %d, clientWidth %d", when, f.Table, browserWidth, f.ScrollWidth, f.ClientWidth)
+	}
+	if f := fits[0]; f.PageScroll > f.PageClient {
+		t.Errorf("%s: the page scrolls sideways at %d px: scrollWidth %d > clientWidth %d", when, browserWidth, f.PageScroll, f.PageClient)
+	}
+}
+
+// detailState counts the lane table's detail cells (header included) and
+// those shown.
+type detailState struct {
+	Box     bool `json:"box"`
+	Cells   int  `json:"cells"`
+	Visible int  `json:"visible"`
+	Rows    int  `json:"rows"`
+}
+
+const detailJS = `(() => {
+  const cells = Array.from(document.querySelectorAll("#lane-table .detail"));
+  return {box: document.getElementById("lane-details") !== null, cells: cells.length,
+    visible: cells.filter((c) => c.getClientRects().length > 0).length,
+    rows: document.getElementById("lane-table").rows.length};
+})()`
+
+func readDetails(t *testing.T, ctx context.Context) detailState {
+	t.Helper()
+	s, err := chromedp.Run(ctx, chromedp.Evaluate[detailState](detailJS))
+	if err != nil {
+		t.Fatalf("reading the detail columns: %v", err)
+	}
+	return s
+}
+
+// checkDetails checks the "show more columns" box: the carried-over
+// columns are hidden at first, all shown while the box is ticked and
+// hidden again after. It logs the table's width while they are shown (not
+// a check: they may need sideways scrolling on a narrow window).
+func checkDetails(t *testing.T, ctx context.Context, d *reports.Document) {
+	t.Helper()
+	s := readDetails(t, ctx)
+	want := len(d.ExtraColumns) * s.Rows // every row, the header's included
+	if s.Box != (len(d.ExtraColumns) > 0) || s.Cells != want {
+		t.Fatalf("box %v and %d detail cells, want box %v and %d cells (%d carried columns)", s.Box, s.Cells, len(d.ExtraColumns) > 0, want, len(d.ExtraColumns))
+	}
+	if !s.Box {
+		return
+	}
+	if s.Visible != 0 {
+		t.Errorf("%d of %d detail cells shown before ticking #lane-details", s.Visible, s.Cells)
+	}
+	box := chromedp.CSS("#lane-details")
+	if err := chromedp.Do(ctx, chromedp.Click(box)); err != nil {
+		t.Fatalf("clicking #lane-details: %v", err)
+	}
+	if s = readDetails(t, ctx); s.Visible != s.Cells {
+		t.Errorf("%d of %d detail cells shown after ticking #lane-details", s.Visible, s.Cells)
+	}
+	fits, err := chromedp.Run(ctx, chromedp.Evaluate[[]tableFit](fitJS))
+	if err != nil {
+		t.Fatalf("measuring the tables: %v", err)
+	}
+	for _, f := range fits {
+		if f.Table == "lane-table" {
+			t.Logf("#lane-table with %d more columns at %d px: scrollWidth %d, clientWidth %d", len(d.ExtraColumns), browserWidth, f.ScrollWidth, f.ClientWidth)
+		}
+	}
+	if err := chromedp.Do(ctx, chromedp.Click(box)); err != nil {
+		t.Fatalf("clicking #lane-details: %v", err)
+	}
+	if s = readDetails(t, ctx); s.Visible != 0 {
+		t.Errorf("%d of %d detail cells still shown after unticking #lane-details", s.Visible, s.Cells)
+	}
+}
+
+// printWidth is the width in CSS pixels of an A4 page (210 mm at 96 px to
+// the inch: 793.7 px) less Chromium's default print margins (0.4 inch,
+// 38.4 px, each side): common practice, from memory.
+const printWidth = 717
+
+// checkPrint lays the page out for print at printWidth: every lane
+// column is there (paper cannot tick a box) and the controls are not. The
+// tables' widths are logged, not checked: they depend on the fonts.
+func checkPrint(t *testing.T, ctx context.Context) {
+	t.Helper()
+	media := func(m string, width int64) {
+		err := chromedp.Do(ctx, chromedp.Func(func(ctx context.Context, tg *chromedp.Target) error {
+			if _, err := cdp.Call(ctx, tg, emulation.SetEmulatedMedia, emulation.SetEmulatedMediaParams{Media: m}); err != nil {
+				return err
+			}
+			_, err := cdp.Call(ctx, tg, emulation.SetDeviceMetricsOverride, emulation.SetDeviceMetricsOverrideParams{
+				Width: width, Height: browserHeight, DeviceScaleFactor: 1})
+			return err
+		}))
+		if err != nil {
+			t.Fatalf("emulating %q media at %d px: %v", m, width, err)
+		}
+	}
+	media("print", printWidth)
+	defer media("", browserWidth)
+	s := readDetails(t, ctx)
+	if s.Visible != s.Cells {
+		t.Errorf("print: %d of %d detail cells shown", s.Visible, s.Cells)
+	}
+	controls, err := chromedp.Run(ctx, chromedp.Evaluate[int](`document.querySelectorAll(".controls").length - Array.from(document.querySelectorAll(".controls")).filter((c) => c.getClientRects().length === 0).length`))
+	if err != nil {
+		t.Fatal(err)
+	}
+	if controls != 0 {
+		t.Errorf("print: %d control paragraph(s) shown", controls)
+	}
+	fits, err := chromedp.Run(ctx, chromedp.Evaluate[[]tableFit](fitJS))
+	if err != nil {
+		t.Fatalf("measuring the tables: %v", err)
+	}
+	for _, f := range fits {
+		t.Logf("print at %d px: #%s scrollWidth %d, clientWidth %d", printWidth, f.Table, f.ScrollWidth, f.ClientWidth)
+	}
 }
 
 // checkSort clicks a numeric column header twice and checks the sort

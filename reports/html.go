@@ -23,6 +23,14 @@ import (
 // Sorting by a column header and the "problem lanes only" filter are a few
 // lines of inline JavaScript; without it the page reads the same. Numbers
 // sort by their decimal value for display only.
+//
+// The tables fit a 1200 pixel wide window without sideways scrolling:
+// numbers never wrap and use tabular digits, names wrap at spaces and after
+// the separators in breakAfter, and the columns carried over from the
+// input (mode, carrier, ...) sit behind a "show more columns" box, since
+// there may be any number of them. The box works by CSS alone (:has());
+// a browser without :has() shows every column. Hidden columns stay in the
+// page, and print shows every column in a smaller type.
 
 // HTML is the self-contained HTML report (see WriteHTML).
 const HTML Format = "html"
@@ -97,15 +105,70 @@ type htmlCycle struct {
 	Steps   []htmlStep
 }
 
+// htmlCell is one table cell. A number is right-aligned and never wraps;
+// other text may wrap at spaces and after the separators in breakAfter.
 type htmlCell struct {
-	Text  string
-	Class string
+	Text   string
+	Class  string // extra class, such as "bad"
+	Num    bool
+	Detail bool // hidden on screen until "show" is ticked
+}
+
+// Classes is the cell's class attribute ("" for none).
+func (c htmlCell) Classes() string {
+	var cls []string
+	if c.Num {
+		cls = append(cls, "num")
+	}
+	if c.Class != "" {
+		cls = append(cls, c.Class)
+	}
+	if c.Detail {
+		cls = append(cls, "detail")
+	}
+	return strings.Join(cls, " ")
+}
+
+// Wrapped is the cell's text as HTML: numbers as they are, other text with
+// break points (see breakable).
+func (c htmlCell) Wrapped() template.HTML {
+	if c.Num {
+		return template.HTML(template.HTMLEscapeString(c.Text))
+	}
+	return breakable(c.Text)
+}
+
+// breakAfter lists the separators after which a long name may wrap (the
+// browser already wraps at spaces and after hyphens).
+const breakAfter = "_/\\.:|"
+
+// breakable escapes s and adds a <wbr> (a break point with no text of its
+// own, so copied text and sort keys stay s) after each run of separators
+// in breakAfter that is followed by more of the name. Time O(len(s)).
+func breakable(s string) template.HTML {
+	var b strings.Builder
+	start := 0
+	for i := 0; i+1 < len(s); i++ {
+		next := s[i+1]
+		if strings.IndexByte(breakAfter, s[i]) < 0 || strings.IndexByte(breakAfter, next) >= 0 || next == ' ' {
+			continue
+		}
+		b.WriteString(template.HTMLEscapeString(s[start : i+1]))
+		b.WriteString("<wbr>")
+		start = i + 1
+	}
+	b.WriteString(template.HTMLEscapeString(s[start:]))
+	return template.HTML(b.String())
 }
 
 type htmlCol struct {
-	Name string
-	Sort string // "num" or "text"
+	Name   string
+	Sort   string // "num" or "text"
+	Detail bool   // hidden on screen until "show" is ticked
 }
+
+func textCol(name string) htmlCol { return htmlCol{Name: name, Sort: "text"} }
+func numCol(name string) htmlCol  { return htmlCol{Name: name, Sort: "num"} }
 
 type htmlRow struct {
 	Order int
@@ -132,6 +195,7 @@ type htmlView struct {
 	Drawing      drawing
 	Charts       []chart
 	LaneCols     []htmlCol
+	LaneDetails  string // the names of the hidden lane columns, for the "show" box
 	Lanes        []htmlRow
 	LaneTotal    int
 	LaneMore     int
@@ -148,7 +212,7 @@ type htmlView struct {
 // drawLaneLimit lanes). Time O(|V|+|E| log |E|); memory O(|V|+|E|) for the
 // drawing plus the rows shown.
 func writeHTML(w io.Writer, d *Document, opt Options) error {
-	t, err := template.New("report").Parse(htmlPage)
+	t, err := template.New("report").Funcs(template.FuncMap{"breakable": breakable}).Parse(htmlPage)
 	if err != nil {
 		return fmt.Errorf("reports: html template: %w", err)
 	}
@@ -342,14 +406,15 @@ func htmlCycleOf(n int, c CycleDoc) htmlCycle {
 }
 
 func htmlLanes(d *Document, opt Options, v *htmlView) {
-	v.LaneCols = []htmlCol{{"lane", "text"}, {"from", "text"}, {"to", "text"}, {"rate", "num"}, {"flow", "num"},
-		{"min", "num"}, {"max", "num"}, {"state", "text"}, {"reduced cost", "num"}, {"slackness", "text"}}
+	v.LaneCols = []htmlCol{textCol("lane"), textCol("from"), textCol("to"), numCol("rate"), numCol("flow"),
+		numCol("min"), numCol("max"), textCol("state"), numCol("reduced cost"), textCol("slackness")}
 	if d.RangesFor != "" {
-		v.LaneCols = append(v.LaneCols, htmlCol{"lowest rate", "num"}, htmlCol{"highest rate", "num"}, htmlCol{"capacity worth", "num"})
+		v.LaneCols = append(v.LaneCols, numCol("lowest rate"), numCol("highest rate"), numCol("capacity worth"))
 	}
 	for _, c := range d.ExtraColumns {
-		v.LaneCols = append(v.LaneCols, htmlCol{c, "text"})
+		v.LaneCols = append(v.LaneCols, htmlCol{Name: c, Sort: "text", Detail: true})
 	}
+	v.LaneDetails = strings.Join(d.ExtraColumns, ", ")
 	prob := d.problemLanes()
 	for _, e := range prob {
 		if e {
@@ -385,9 +450,9 @@ func htmlLanes(d *Document, opt Options, v *htmlView) {
 			cls = append(cls, "on-reroute")
 		}
 		row := htmlRow{Order: i, Class: strings.Join(cls, " "), State: l.State, Cells: []htmlCell{
-			{l.ID, ""}, {l.From, ""}, {l.To, ""}, {l.Cost, "num"}, {l.Flow, "num"}, {l.Min, "num"},
-			{deref(l.Max, "no limit"), "num"}, {strings.ReplaceAll(l.State, "-", " "), ""},
-			{deref(l.ReducedCost, "-"), "num"}, {slack, slackClass},
+			{Text: l.ID}, {Text: l.From}, {Text: l.To}, numCell(l.Cost), numCell(l.Flow), numCell(l.Min),
+			numCell(deref(l.Max, "no limit")), {Text: strings.ReplaceAll(l.State, "-", " ")},
+			numCell(deref(l.ReducedCost, "-")), {Text: slack, Class: slackClass},
 		}}
 		if d.RangesFor != "" {
 			r := l.Range
@@ -395,19 +460,23 @@ func htmlLanes(d *Document, opt Options, v *htmlView) {
 			if r.ByRoute {
 				lower, upper = star(r.Lower, lower), star(r.Upper, upper)
 			}
-			row.Cells = append(row.Cells, htmlCell{lower, "num"}, htmlCell{upper, "num"}, htmlCell{deref(r.CapacityValue, ""), "num"})
+			row.Cells = append(row.Cells, numCell(lower), numCell(upper), numCell(deref(r.CapacityValue, "")))
 		}
 		for _, c := range d.ExtraColumns {
-			row.Cells = append(row.Cells, htmlCell{l.Extra[c], ""})
+			row.Cells = append(row.Cells, htmlCell{Text: l.Extra[c], Detail: true})
 		}
 		v.Lanes = append(v.Lanes, row)
 	}
 }
 
+// numCell is a cell holding a number (or "no limit", "-" and the like in
+// a number column).
+func numCell(s string) htmlCell { return htmlCell{Text: s, Num: true} }
+
 func htmlNodes(d *Document, opt Options, v *htmlView) {
-	v.NodeCols = []htmlCol{{"node", "text"}, {"role", "text"}, {"supply", "num"}, {"net out", "num"}, {"potential", "num"}}
+	v.NodeCols = []htmlCol{textCol("node"), textCol("role"), numCol("supply"), numCol("net out"), numCol("potential")}
 	if d.RangesFor != "" {
-		v.NodeCols = append(v.NodeCols, htmlCol{"one more unit costs", "num"}, htmlCol{"one less saves", "num"})
+		v.NodeCols = append(v.NodeCols, numCol("one more unit costs"), numCol("one less saves"))
 	}
 	shown := d.NumNodes()
 	if opt.Rows > 0 && opt.Rows < shown {
@@ -416,14 +485,20 @@ func htmlNodes(d *Document, opt Options, v *htmlView) {
 	v.NodeMore = d.NumNodes() - shown
 	for i := 0; i < shown; i++ {
 		nd := d.Node(i)
-		row := htmlRow{Order: i, Cells: []htmlCell{{nd.ID, ""}, {nodeRole(d.net.Supply[i]), ""}, {nd.Supply, "num"}, {nd.NetOut, "num"}, {deref(nd.Potential, "-"), "num"}}}
+		row := htmlRow{Order: i, Cells: []htmlCell{{Text: nd.ID}, {Text: nodeRole(d.net.Supply[i])}, numCell(nd.Supply),
+			numCell(nd.NetOut), numCell(deref(nd.Potential, "-"))}}
 		if d.RangesFor != "" {
-			row.Cells = append(row.Cells, htmlCell{deref(nd.ShadowPrice, "cannot"), "num"}, htmlCell{deref(nd.PriceIfLess, "cannot"), "num"})
+			row.Cells = append(row.Cells, numCell(deref(nd.ShadowPrice, "cannot")), numCell(deref(nd.PriceIfLess, "cannot")))
 		}
 		v.Nodes = append(v.Nodes, row)
 	}
 }
 
+// htmlPage is the report's template. In its style sheet, the lane table's
+// number headers have width 1px, so that those columns take no more than
+// their widest entry and the names get the rest of the width; the .detail
+// cells (carried-over columns) are hidden on screen only, while
+// #lane-details is not ticked, so print shows them.
 const htmlPage = `<!DOCTYPE html>
 <html lang="en">
 <head>
@@ -451,8 +526,12 @@ dl.facts dt { font-weight: 600; }
 dl.facts dd { margin: 0; font-variant-numeric: tabular-nums; }
 .table-wrap { overflow-x: auto; }
 table { border-collapse: collapse; width: 100%; font-size: .9rem; }
-th, td { padding: .25rem .5rem; border-bottom: 1px solid var(--rule); text-align: left; vertical-align: top; }
-td.num, th[data-sort="num"] { text-align: right; font-variant-numeric: tabular-nums; }
+th, td { padding: .25rem .35rem; border-bottom: 1px solid var(--rule); text-align: left; vertical-align: top; }
+th:first-child, td:first-child { padding-left: .5rem; }
+td.num, th[data-sort="num"] { padding-left: .25rem; padding-right: .25rem; text-align: right; font-variant-numeric: tabular-nums; }
+td.num { white-space: nowrap; }
+td.num + td:not(.num), th[data-sort="num"] + th:not([data-sort]) { padding-left: .6rem; }
+#lane-table th[data-sort="num"] { width: 1px; }
 th button { all: unset; cursor: pointer; font-weight: 700; }
 th button:focus-visible { outline: 2px solid #0072B2; }
 th[aria-sort="ascending"] button::after { content: " ▲"; }
@@ -460,6 +539,7 @@ th[aria-sort="descending"] button::after { content: " ▼"; }
 tr.problem td:first-child { box-shadow: inset 4px 0 0 #D55E00; }
 td.bad { font-weight: 700; color: #B34700; }
 #lane-table.only-problems tbody tr:not(.problem) { display: none; }
+@media screen { #lanes:has(#lane-details:not(:checked)) .detail { display: none; } }
 .more, .note { color: var(--muted); font-style: italic; }
 figure { margin: 1rem 0; }
 figcaption { color: var(--muted); font-size: .9rem; }
@@ -469,6 +549,11 @@ svg.chart-svg { max-width: 640px; display: block; }
 footer { margin-top: 2rem; font-size: .85rem; color: var(--muted); }
 @media print {
   body { max-width: none; padding: 0; font-size: 10pt; }
+  table { font-size: 8pt; }
+  #lane-table { font-size: 7.5pt; }
+  th, td, td.num, th[data-sort="num"] { padding: .1rem .15rem; }
+  th:first-child, td:first-child { padding-left: .4rem; }
+  td.num + td:not(.num), th[data-sort="num"] + th:not([data-sort]) { padding-left: .3rem; }
   .controls, th button::after { display: none; }
   th button { all: unset; font-weight: 700; }
   section, figure, tr { break-inside: avoid; }
@@ -510,7 +595,7 @@ footer { margin-top: 2rem; font-size: .85rem; color: var(--muted); }
 <div class="table-wrap"><table id="repair-table" class="sortable">
 <thead><tr><th scope="col"><button type="button">lane</button></th><th scope="col"><button type="button">from</button></th><th scope="col"><button type="button">to</button></th><th scope="col" data-sort="num"><button type="button">plan</button></th><th scope="col" data-sort="num"><button type="button">optimal</button></th><th scope="col" data-sort="num"><button type="button">cost change</button></th></tr></thead>
 <tbody>
-{{range $i, $c := .Repair}}<tr data-order="{{$i}}"><td>{{$c.Lane}}</td><td>{{$c.From}}</td><td>{{$c.To}}</td><td class="num">{{$c.Old}}</td><td class="num">{{$c.New}}</td><td class="num">{{$c.CostChange}}</td></tr>
+{{range $i, $c := .Repair}}<tr data-order="{{$i}}"><td>{{breakable $c.Lane}}</td><td>{{breakable $c.From}}</td><td>{{breakable $c.To}}</td><td class="num">{{$c.Old}}</td><td class="num">{{$c.New}}</td><td class="num">{{$c.CostChange}}</td></tr>
 {{end}}</tbody>
 </table></div>
 {{if .RepairMore}}<p class="more">… {{.RepairMore}} more change(s) not shown{{.MoreHint}}</p>
@@ -531,11 +616,11 @@ footer { margin-top: 2rem; font-size: .85rem; color: var(--muted); }
 {{end}}</section>
 <section id="lanes">
 <h2>Lanes</h2>
-<p class="controls"><label><input type="checkbox" id="problem-only"> problem lanes only</label> ({{.Problems}} out of bounds, breaking optimality or on a reroute). Click a column header to sort.</p>
+<p class="controls"><label><input type="checkbox" id="problem-only"> problem lanes only</label> ({{.Problems}} out of bounds, breaking optimality or on a reroute).{{if .LaneDetails}} <label><input type="checkbox" id="lane-details"> show more columns ({{.LaneDetails}})</label>.{{end}} Click a column header to sort.</p>
 <div class="table-wrap"><table id="lane-table" class="sortable">
-<thead><tr>{{range .LaneCols}}<th scope="col"{{if eq .Sort "num"}} data-sort="num"{{end}}><button type="button">{{.Name}}</button></th>{{end}}</tr></thead>
+<thead><tr>{{range .LaneCols}}<th scope="col"{{if eq .Sort "num"}} data-sort="num"{{end}}{{if .Detail}} class="detail"{{end}}><button type="button">{{.Name}}</button></th>{{end}}</tr></thead>
 <tbody>
-{{range .Lanes}}<tr data-order="{{.Order}}" data-state="{{.State}}"{{if .Class}} class="{{.Class}}"{{end}}>{{range .Cells}}<td{{if .Class}} class="{{.Class}}"{{end}}>{{.Text}}</td>{{end}}</tr>
+{{range .Lanes}}<tr data-order="{{.Order}}" data-state="{{.State}}"{{if .Class}} class="{{.Class}}"{{end}}>{{range .Cells}}<td{{with .Classes}} class="{{.}}"{{end}}>{{.Wrapped}}</td>{{end}}</tr>
 {{end}}</tbody>
 </table></div>
 {{if .LaneMore}}<p class="more">… {{.LaneMore}} more lane(s) not shown{{.MoreHint}}</p>
@@ -545,7 +630,7 @@ footer { margin-top: 2rem; font-size: .85rem; color: var(--muted); }
 <div class="table-wrap"><table id="node-table" class="sortable">
 <thead><tr>{{range .NodeCols}}<th scope="col"{{if eq .Sort "num"}} data-sort="num"{{end}}><button type="button">{{.Name}}</button></th>{{end}}</tr></thead>
 <tbody>
-{{range .Nodes}}<tr data-order="{{.Order}}">{{range .Cells}}<td{{if .Class}} class="{{.Class}}"{{end}}>{{.Text}}</td>{{end}}</tr>
+{{range .Nodes}}<tr data-order="{{.Order}}">{{range .Cells}}<td{{with .Classes}} class="{{.}}"{{end}}>{{.Wrapped}}</td>{{end}}</tr>
 {{end}}</tbody>
 </table></div>
 {{if .NodeMore}}<p class="more">… {{.NodeMore}} more node(s) not shown{{.MoreHint}}</p>

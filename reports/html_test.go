@@ -8,6 +8,7 @@ import (
 	"math/rand/v2"
 	"os"
 	"path/filepath"
+	"slices"
 	"sort"
 	"strconv"
 	"strings"
@@ -677,5 +678,203 @@ func TestHTMLLayersUncross(t *testing.T) {
 	}
 	if crossings != 0 {
 		t.Errorf("%d crossings, want 0; node heights %v", crossings, y)
+	}
+}
+
+// segments splits a cell's text at its <wbr> break points.
+func segments(n *html.Node) []string {
+	segs := []string{""}
+	var walk func(*html.Node)
+	walk = func(n *html.Node) {
+		switch {
+		case n.Type == html.TextNode:
+			segs[len(segs)-1] += n.Data
+		case n.Type == html.ElementNode && n.Data == "wbr":
+			segs = append(segs, "")
+		}
+		for c := n.FirstChild; c != nil; c = c.NextSibling {
+			walk(c)
+		}
+	}
+	walk(n)
+	return segs
+}
+
+// rowsOf returns the cells of each body row of the table with the given id.
+func rowsOf(t *testing.T, root *html.Node, id string) [][]*html.Node {
+	t.Helper()
+	table := byID(root, id)
+	if table == nil {
+		t.Fatalf("no #%s", id)
+	}
+	var rows [][]*html.Node
+	for _, e := range elements(table) {
+		if e.Data != "tr" || e.Parent == nil || e.Parent.Data != "tbody" {
+			continue
+		}
+		var cells []*html.Node
+		for c := e.FirstChild; c != nil; c = c.NextSibling {
+			if c.Type == html.ElementNode && c.Data == "td" {
+				cells = append(cells, c)
+			}
+		}
+		rows = append(rows, cells)
+	}
+	return rows
+}
+
+// TestHTMLNameBreaks: names wrap after runs of the separators _ / \ . : |
+// (a <wbr> there) and nowhere else the page chooses; the text, and so the
+// copied text and the sort key, stays the name. Numbers get no break
+// points. The expected splits follow the rule in html.go (breakAfter).
+func TestHTMLNameBreaks(t *testing.T) {
+	split := map[string][]string{
+		"Plant_North/Dock.7": {"Plant_", "North/", "Dock.", "7"},
+		"DC__East":           {"DC__", "East"},  // one break after a run
+		"St. Albans DC":      {"St. Albans DC"}, // a space follows: the browser breaks there
+		"Shop:1|B":           {"Shop:", "1|", "B"},
+		"end.":               {"end."}, // nothing follows
+		`a\b`:                {`a\`, "b"},
+		"..x":                {"..", "x"},
+		"Co-op":              {"Co-op"}, // browsers break after hyphens themselves
+		"L_1":                {"L_", "1"},
+		"L.2":                {"L.", "2"},
+		"L3":                 {"L3"},
+		"Tide/Wick_Freight":  {"Tide/", "Wick_", "Freight"},
+		"a<b>/c&d":           {"a<b>/", "c&d"},
+	}
+	n := &flow.Network{
+		Nodes:     []string{"Plant_North/Dock.7", "DC__East", "St. Albans DC", "Shop:1|B", "end.", `a\b`, "..x", "Co-op"},
+		Supply:    []int64{5, 0, 0, 0, -5, 0, 0, 0},
+		Tail:      []flow.NodeID{0, 1, 0, 0, 2, 3, 5, 6},
+		Head:      []flow.NodeID{1, 4, 4, 2, 3, 5, 6, 7},
+		Lower:     []int64{0, 0, 0, 0, 0, 0, 0, 0},
+		Upper:     []int64{flow.NoLimit, flow.NoLimit, flow.NoLimit, flow.NoLimit, flow.NoLimit, flow.NoLimit, flow.NoLimit, flow.NoLimit},
+		Rate:      []int64{1, 1, 9, 1, 1, 1, 1, 1},
+		LaneNames: []string{"L_1", "L.2", "L3", "Co-op", "end.", "..x", `a\b`, "a<b>/c&d"},
+		Extra: &flow.ExtraColumns{Names: []string{"carrier"},
+			Values: [][]string{{"Tide/Wick_Freight"}, {"L3"}, {"St. Albans DC"}, {"Co-op"}, {"L_1"}, {"L.2"}, {"..x"}, {"end."}}},
+	}
+	plan := []int64{0, 0, 5, 0, 0, 0, 0, 0} // not optimal: 0 -> 1 -> 4 costs 2 < 9
+	a, err := dual.Check(n, plan)
+	if err != nil {
+		t.Fatal(err)
+	}
+	o, err := dual.Optimize(n, plan, nil)
+	if err != nil {
+		t.Fatal(err)
+	}
+	d, err := reports.Build(a, o, reports.Inputs{Network: "breaks", Plan: "breaks"}, nil)
+	if err != nil {
+		t.Fatal(err)
+	}
+	root := parseHTML(t, renderHTML(t, d, reports.Options{}))
+	checked := 0
+	check := func(table string, cells []*html.Node) {
+		for _, c := range cells {
+			name := text(c)
+			if hasClass(c, "num") {
+				if segs := segments(c); len(segs) != 1 {
+					t.Errorf("#%s: number %q has break points: %q", table, name, segs)
+				}
+				continue
+			}
+			want, ok := split[name]
+			if !ok {
+				continue // words such as the state
+			}
+			checked++
+			if got := segments(c); !slices.Equal(got, want) {
+				t.Errorf("#%s: %q breaks as %q, want %q", table, name, got, want)
+			}
+		}
+	}
+	for _, id := range []string{"lane-table", "node-table", "repair-table"} {
+		for _, r := range rowsOf(t, root, id) {
+			check(id, r)
+		}
+	}
+	// 8 lanes x (lane, from, to, carrier) + 8 nodes + the repair's lanes.
+	if checked < 8*4+8 {
+		t.Errorf("checked %d names, want at least %d", checked, 8*4+8)
+	}
+}
+
+// TestHTMLDetailColumns: the carried-over columns are marked "detail" in
+// the lane table's head and in every row, a "show" box names them, and
+// their values are all on the page; a network without them has neither box
+// nor detail cells. The other columns are never detail.
+func TestHTMLDetailColumns(t *testing.T) {
+	for _, f := range fixtures() {
+		t.Run(f.name, func(t *testing.T) {
+			d := build(t, f)
+			root := parseHTML(t, renderHTML(t, d, reports.Options{}))
+			table := byID(root, "lane-table")
+			if table == nil {
+				t.Fatal("no #lane-table")
+			}
+			var heads []*html.Node
+			for _, e := range elements(table) {
+				if e.Data == "th" {
+					heads = append(heads, e)
+				}
+			}
+			extra := len(d.ExtraColumns)
+			core := len(heads) - extra
+			for i, h := range heads {
+				if hasClass(h, "detail") != (i >= core) {
+					t.Errorf("header %d %q: detail %v, want %v", i, text(h), hasClass(h, "detail"), i >= core)
+				}
+				if i >= core && text(h) != d.ExtraColumns[i-core] {
+					t.Errorf("header %d is %q, want %q", i, text(h), d.ExtraColumns[i-core])
+				}
+			}
+			rows := rowsOf(t, root, "lane-table")
+			if len(rows) != d.NumLanes() {
+				t.Fatalf("%d rows, want %d", len(rows), d.NumLanes())
+			}
+			for _, r := range rows {
+				if len(r) != len(heads) {
+					t.Fatalf("row of %d cells under %d headers", len(r), len(heads))
+				}
+				id := text(r[0])
+				var l *reports.LaneDoc
+				for e := 0; e < d.NumLanes(); e++ {
+					if x := d.Lane(e); x.ID == id {
+						l = &x
+					}
+				}
+				if l == nil {
+					t.Fatalf("row for unknown lane %q", id)
+				}
+				for i, c := range r {
+					if hasClass(c, "detail") != (i >= core) {
+						t.Errorf("lane %s cell %d: detail %v, want %v", id, i, hasClass(c, "detail"), i >= core)
+					}
+					if i >= core && text(c) != l.Extra[d.ExtraColumns[i-core]] {
+						t.Errorf("lane %s %s: %q, want %q", id, d.ExtraColumns[i-core], text(c), l.Extra[d.ExtraColumns[i-core]])
+					}
+				}
+			}
+			box := byID(root, "lane-details")
+			if extra == 0 {
+				if box != nil {
+					t.Error("a #lane-details box with no columns to show")
+				}
+				return
+			}
+			if box == nil || box.Data != "input" || box.Parent == nil || box.Parent.Data != "label" {
+				t.Fatal("no #lane-details checkbox in a label")
+			}
+			if v, ok := attr(box, "checked"); ok {
+				t.Errorf("#lane-details checked=%q by default", v)
+			}
+			label := text(box.Parent)
+			for _, c := range d.ExtraColumns {
+				if !strings.Contains(label, c) {
+					t.Errorf("the box's label %q does not name column %q", label, c)
+				}
+			}
+		})
 	}
 }
