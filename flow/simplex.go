@@ -72,6 +72,13 @@ type SolveOptions struct {
 	// Solution.Flow may share its flow array, so the plan must not be
 	// changed while the Basis is in use.
 	Keep bool
+
+	// keepSim keeps the solver in Solution.sim and starts warm without
+	// sifting (the restricted solves of sift).
+	keepSim bool
+	// siftAlways sifts whenever the plan allows, whatever the network's
+	// size (tests).
+	siftAlways bool
 }
 
 // Solution is the result of Solve.
@@ -119,6 +126,9 @@ type Solution struct {
 	// cheapest such plan: a good start for the network with priced unmet
 	// demand (SolvePricedShortfall).
 	Attempt []int64
+
+	sim    *simplex // with SolveOptions.keepSim
+	sifted bool     // the warm start sifted (tests)
 }
 
 // Arc states. An arc that is not in the tree is at its lower bound
@@ -390,7 +400,13 @@ func Solve(n *Network, opt SolveOptions) (*Solution, error) {
 
 	warm, proved := false, false
 	var superbasic []int32
-	if tryWarm && supply >= demand {
+	if tryWarm && supply == demand && !opt.keepSim && (opt.siftAlways || s.siftable(true)) {
+		if warm, proved, err = s.sift(opt.Start); err != nil {
+			return nil, err
+		}
+		sol.sifted = warm
+	}
+	if tryWarm && supply >= demand && !warm {
 		var unb bool
 		warm, superbasic, proved, unb, err = s.warmStart(opt.Start)
 		if err != nil {
@@ -506,6 +522,9 @@ func Solve(n *Network, opt SolveOptions) (*Solution, error) {
 		if sol.Basis, err = newBasis(s); err != nil {
 			return nil, err
 		}
+	}
+	if opt.keepSim {
+		sol.sim = s
 	}
 	return sol, nil
 }

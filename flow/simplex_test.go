@@ -1199,3 +1199,123 @@ func TestSolveLargeRates(t *testing.T) {
 		t.Errorf("only %d large-rate cases solved", solved)
 	}
 }
+
+// TestSolveSiftOracle checks the warm start by sifting (forced on small
+// networks through flow.SolveSifting; Solve itself sifts only on dense
+// networks of at least 2^15 lanes) against the gonum LP oracle on 600
+// seeded random networks whose supply equals their demand and whose lanes
+// have no minimum (the networks it applies to), with all other features
+// of randnet: capacities, parallel lanes, zero and negative rates (so
+// unbounded problems), decimal places. From a random feasible plan and
+// from a perturbed optimum every solve must warm start, reach the
+// oracle's status and the cold cost, and pass the independent checker
+// (or give a cycle of negative cost without capacity). Most of them must
+// have sifted (the others fell back to the other warm start: an
+// unbounded restricted network).
+func TestSolveSiftOracle(t *testing.T) {
+	rng := rand.New(rand.NewPCG(20261202, 1))
+	counts := map[flow.Status]int{}
+	solves, sifted := 0, 0
+	for i := 0; i < 600; i++ {
+		o := randnet.RandomOptions(rng)
+		o.LowerFrac, o.ExcessSupply, o.Infeasible = 0, false, false
+		if i%5 == 4 {
+			o.Kind, o.NegativeRates, o.CapFrac = randnet.General, true, 0.3
+		}
+		n := randnet.Network(rng, o)
+		name := fmt.Sprintf("case %d (%d nodes, %d lanes)", i, len(n.Nodes), len(n.Tail))
+		res, err := oracle.MinCost(n)
+		if err != nil {
+			t.Fatalf("%s: oracle: %v", name, err)
+		}
+		sol, err := flow.Solve(n, flow.SolveOptions{})
+		if err != nil {
+			t.Fatalf("%s: %v", name, err)
+		}
+		if sol.Status.String() != res.Status.String() {
+			t.Fatalf("%s: cold status %v, oracle %v", name, sol.Status, res.Status)
+		}
+		counts[sol.Status]++
+		var starts [][]int64
+		if x, ok := randnet.FeasiblePlan(rng, n); ok {
+			starts = append(starts, x)
+		}
+		if sol.Status == flow.Optimal {
+			starts = append(starts, sol.Flow, randnet.PerturbedPlan(rng, n, sol.Flow))
+		}
+		for j, y := range starts {
+			if certcheck.Feasible(n, y) != nil {
+				continue // (a perturbation may leave the bounds)
+			}
+			w, err := flow.SolveSifting(n, y)
+			if err != nil {
+				t.Fatalf("%s, start %d: %v", name, j, err)
+			}
+			solves++
+			if flow.Sifted(w) {
+				sifted++
+			}
+			if !w.WarmStarted || w.Status != sol.Status {
+				t.Fatalf("%s, start %d: warm %v, status %v, cold %v", name, j, w.WarmStarted, w.Status, sol.Status)
+			}
+			switch w.Status {
+			case flow.Optimal:
+				checkOptimal(t, n, w)
+				if w.Cost.Cmp(sol.Cost) != 0 || !oracle.SameCost(w.Cost, n.QtyPlaces+n.RatePlaces, res) {
+					t.Fatalf("%s, start %d: sifted cost %s, cold %s, oracle %g", name, j, w.Cost.Format(0), sol.Cost.Format(0), res.CostScaled)
+				}
+			case flow.Unbounded:
+				checkCycle(t, n, w.Cycle)
+			}
+		}
+	}
+	t.Logf("statuses %v; %d of %d warm solves sifted", counts, sifted, solves)
+	if counts[flow.Optimal] < 300 || counts[flow.Unbounded] < 10 {
+		t.Errorf("statuses %v: the cases no longer cover optimal and unbounded", counts)
+	}
+	if sifted < solves*3/4 {
+		t.Errorf("only %d of %d warm solves sifted", sifted, solves)
+	}
+}
+
+// TestSolveSiftDense repairs dense transportation plans (netgen, above the
+// size where Solve sifts, supply equal to demand) moved around 10 cycles
+// from the optimum (netgen.Perturb, as in the benchmarks): the warm start
+// must sift and reach the cold optimum with a valid certificate; from the
+// optimum itself too.
+func TestSolveSiftDense(t *testing.T) {
+	for _, c := range []struct {
+		name string
+		n    *flow.Network
+	}{
+		{"200x200 complete", netgen.Transport(41, 200, 200, 0, 1000)},
+		{"120x300 complete, rates below 20", netgen.Transport(42, 120, 300, 0, 20)},
+	} {
+		t.Run(c.name, func(t *testing.T) {
+			n := c.n
+			sol, err := flow.Solve(n, flow.SolveOptions{})
+			if err != nil {
+				t.Fatal(err)
+			}
+			checkOptimal(t, n, sol)
+			starts := [][]int64{sol.Flow}
+			for seed := uint64(51); seed < 54; seed++ {
+				starts = append(starts, netgen.Perturb(seed, n, sol.Flow, sol.InTree, 10))
+			}
+			for j, y := range starts {
+				w, err := flow.Solve(n, flow.SolveOptions{Start: y})
+				if err != nil {
+					t.Fatal(err)
+				}
+				if !w.WarmStarted || !flow.Sifted(w) {
+					t.Fatalf("start %d: warm %v, sifted %v", j, w.WarmStarted, flow.Sifted(w))
+				}
+				checkOptimal(t, n, w)
+				if w.Cost.Cmp(sol.Cost) != 0 {
+					t.Fatalf("start %d: cost %s, want %s", j, w.Cost.Format(0), sol.Cost.Format(0))
+				}
+				t.Logf("start %d: %d pivots (cold %d)", j, w.Pivots, sol.Pivots)
+			}
+		})
+	}
+}

@@ -1,0 +1,223 @@
+package flow
+
+import (
+	"math"
+	"slices"
+)
+
+// A warm start on a dense network sifts: it solves the network restricted
+// to a few lanes (the lanes the plan uses and, for each node, the two
+// cheapest lanes at it) from the plan, makes that optimum the
+// whole network's tree, and prices every lane once. Lanes with the wrong
+// sign of reduced cost are added to the restricted optimum's kept basis
+// (Basis.Add: a few pivots from it), until one pricing finds none (the
+// tree is then optimal, and no further pass is needed) or after
+// siftRounds rounds (block search then finishes on the whole network from
+// the last tree). A plan that is optimal except for a few cycles moves
+// only on lanes near its own, so the restricted network stays small (a
+// few lanes per node): the cost is one pass over the lanes that also
+// checks the plan, plus one pricing pass per round (two on the dense
+// transportation instances of BENCHMARKS.md), against several passes for
+// a search over lists of all the lanes at a bound.
+const (
+	siftMinLanes = 1 << 15 // sift on networks with at least this many lanes
+	siftDegree   = 32      // and at least this many lanes per node
+	siftRounds   = 6       // pricing passes before block search takes over
+)
+
+// siftable reports whether a warm start sifts: a dense network (see
+// siftMinLanes, below the size where the warm start sweeps) whose supply
+// equals its demand; sift checks the rest.
+func (s *simplex) siftable(balanced bool) bool {
+	return balanced && s.hold < 0 && s.m >= siftMinLanes && s.m >= siftDegree*s.nNodes && s.m < sweepMinLanes
+}
+
+// sift is the warm start by sifting (see siftMinLanes) from the plan x.
+// It reports ok false when it does not apply: x is not a feasible plan,
+// some lane is invalid or has a minimum, the arithmetic would need checks,
+// or a restricted solve is not Optimal (unbounded: the caller's warm
+// start finds the cycle); the caller's warm start then sets every lane's
+// flow and state again. With ok, the solver's tree is set from the last
+// restricted optimum, with its potentials and the plan's cost, and proved
+// reports that the last pricing found every lane with the right sign of
+// reduced cost (the tree is optimal).
+//
+// Time O(|V|+|E|) per round plus the restricted solves; memory O(|V|) plus
+// 1 bit per lane and the restricted network.
+func (s *simplex) sift(x []int64) (ok, proved bool, err error) {
+	n := s.net
+	m, nv := s.m, len(n.Nodes)
+	if len(x) != m || nv != s.nNodes {
+		return false, false, nil
+	}
+	// The first pass: the checks of warmStart's first pass, the states,
+	// the node balances, the lanes the plan uses and each node's two
+	// cheapest lanes at zero flow with room (ties: the first).
+	// Per node, its two cheapest lanes: rate and lane, the cheaper first
+	// (lane -1: none yet); a lane is offered only below the second.
+	type two struct {
+		r1, r2 int64
+		a1, a2 int32
+	}
+	best := make([]two, nv)
+	for v := range best {
+		best[v] = two{math.MaxInt64, math.MaxInt64, -1, -1}
+	}
+	keep := func(b *two, r int64, a int32) {
+		if r < b.r1 {
+			b.r2, b.a2, b.r1, b.a1 = b.r1, b.a1, r, a
+		} else {
+			b.r2, b.a2 = r, a
+		}
+	}
+	netout := make([]int64, nv)
+	var lanes []int32 // the restricted network's lanes
+	var maxRate uint64
+	tail, head, rate, lower, upper := s.tail[:m], s.head[:m], s.rate[:m], n.Lower[:m], n.Upper[:m]
+	flow, state := s.flow[:m], s.state[:m]
+	x = x[:m]
+	for a := 0; a < m; a++ {
+		xa, up := x[a], upper[a]
+		t, h, r := tail[a], head[a], rate[a]
+		if lower[a] != 0 || xa < 0 || xa > up || xa == inf || uint32(t) >= uint32(nv) || uint32(h) >= uint32(nv) || r == math.MinInt64 {
+			return false, false, nil
+		}
+		maxRate = max(maxRate, uint64(abs64(r)))
+		// (flow[a] is 0 in a new solver; the restricted optimum's flows
+		// are set below.)
+		if up == 0 {
+			state[a] = stateTree // fixed
+			continue
+		}
+		state[a] = stateLower
+		if xa != 0 {
+			var e1, e2 error
+			netout[t], e1 = AddChecked(netout[t], xa)
+			netout[h], e2 = SubChecked(netout[h], xa)
+			if e1 != nil || e2 != nil {
+				return false, false, nil
+			}
+			lanes = append(lanes, int32(a))
+			continue
+		}
+		if bt := &best[t]; r < bt.r2 {
+			keep(bt, r, int32(a))
+		}
+		if bh := &best[h]; r < bh.r2 {
+			keep(bh, r, int32(a))
+		}
+	}
+	for v := 0; v < nv; v++ {
+		if netout[v] != n.Supply[v] {
+			return false, false, nil
+		}
+	}
+	if needChecks(int64(s.nNodes), int64(maxRate)) {
+		return false, false, nil
+	}
+	inC := make([]uint64, (m+63)/64)
+	mark := func(a int32) { inC[a>>6] |= 1 << (a & 63) }
+	for _, a := range lanes {
+		mark(a)
+	}
+	cheap := make([]int32, 0, 2*nv)
+	for _, b := range best {
+		for _, a := range [2]int32{b.a1, b.a2} {
+			if a >= 0 {
+				cheap = append(cheap, a)
+			}
+		}
+	}
+	slices.Sort(cheap)
+	for _, a := range slices.Compact(cheap) {
+		mark(a)
+		lanes = append(lanes, a)
+	}
+
+	// Round 0: solve the restricted network from the plan.
+	sub := &Network{Nodes: n.Nodes, Supply: n.Supply, QtyPlaces: n.QtyPlaces, RatePlaces: n.RatePlaces,
+		Tail: make([]NodeID, len(lanes)), Head: make([]NodeID, len(lanes)), Rate: make([]int64, len(lanes)),
+		Lower: make([]int64, len(lanes)), Upper: make([]int64, len(lanes))}
+	start := make([]int64, len(lanes))
+	for j, a := range lanes {
+		sub.Tail[j], sub.Head[j], sub.Rate[j], sub.Upper[j] = tail[a], head[a], rate[a], upper[a]
+		start[j] = x[a]
+	}
+	sol, err := Solve(sub, SolveOptions{Start: start, Keep: true, keepSim: true})
+	if err != nil {
+		return false, false, err
+	}
+	if sol.Status != Optimal {
+		return false, false, nil
+	}
+	basis, t := sol.Basis, sol.sim
+	nc := len(lanes)
+	var extra []Candidate // lanes added to the kept basis: arcs t.na.. of Add's state
+	pivots, cost := sol.Pivots, sol.Cost
+	tree := make([]int32, 0, s.nNodes)
+	var viol []int32
+	for round := 1; ; round++ {
+		// The restricted optimum (state t: its lanes, then its
+		// artificial arcs, then the extras) as the whole network's tree.
+		na := basis.s.na
+		arc := func(p int32) int32 {
+			switch {
+			case int(p) < nc:
+				return lanes[p]
+			case int(p) >= na:
+				return lanes[nc+int(p)-na]
+			}
+			return int32(s.artStart) + p - int32(t.artStart) // artificial
+		}
+		for j, a := range lanes[:nc] {
+			flow[a], state[a] = t.flow[j], t.state[j]
+		}
+		for i, a := range lanes[nc:] {
+			if na+i < len(t.flow) {
+				flow[a], state[a] = t.flow[na+i], t.state[na+i]
+			} else {
+				flow[a], state[a] = 0, stateLower // (Add kept the basis)
+			}
+		}
+		tree = tree[:0]
+		for v := 0; v < s.nNodes; v++ {
+			tree = append(tree, arc(t.pred[v]))
+		}
+		s.setTree(tree)
+		s.computePotentials()
+		s.obj, s.objOK = cost, true
+		s.pivots = pivots
+
+		// Price every lane (those of the restricted network have the
+		// right sign already).
+		viol = viol[:0]
+		pot := s.pot
+		for a, st := range state {
+			if st != stateTree && int64(st)*(rate[a]+pot[tail[a]]-pot[head[a]]) < 0 {
+				viol = append(viol, int32(a))
+			}
+		}
+		if len(viol) == 0 {
+			return true, true, nil
+		}
+		if round == siftRounds || len(lanes)+len(viol) > m/4 {
+			return true, false, nil
+		}
+		for _, a := range viol {
+			if inC[a>>6]&(1<<(a&63)) != 0 {
+				return true, false, nil // (cannot happen: block search finishes)
+			}
+			mark(a)
+			lanes = append(lanes, a)
+			extra = append(extra, Candidate{Tail: tail[a], Head: head[a], Rate: rate[a], Upper: upper[a]})
+		}
+		add, err := basis.Add(extra)
+		if err != nil {
+			return false, false, err
+		}
+		if add.Status != Optimal {
+			return false, false, nil
+		}
+		t, pivots, cost = add.s, pivots+add.Pivots, add.Cost
+	}
+}
