@@ -53,60 +53,17 @@ func (s *simplex) sift(x []int64) (ok, proved bool, err error) {
 	// The first pass: the checks of warmStart's first pass, the states,
 	// the node balances, the lanes the plan uses and each node's two
 	// cheapest lanes at zero flow with room (ties: the first).
-	// Per node, its two cheapest lanes: rate and lane, the cheaper first
-	// (lane -1: none yet); a lane is offered only below the second.
-	type two struct {
-		r1, r2 int64
-		a1, a2 int32
-	}
-	best := make([]two, nv)
+	best := make([]cheapTwo, nv)
 	for v := range best {
-		best[v] = two{math.MaxInt64, math.MaxInt64, -1, -1}
-	}
-	keep := func(b *two, r int64, a int32) {
-		if r < b.r1 {
-			b.r2, b.a2, b.r1, b.a1 = b.r1, b.a1, r, a
-		} else {
-			b.r2, b.a2 = r, a
-		}
+		best[v] = cheapTwo{math.MaxInt64, math.MaxInt64, -1, -1}
 	}
 	netout := make([]int64, nv)
-	var lanes []int32 // the restricted network's lanes
-	var maxRate uint64
-	tail, head, rate, lower, upper := s.tail[:m], s.head[:m], s.rate[:m], n.Lower[:m], n.Upper[:m]
-	flow, state := s.flow[:m], s.state[:m]
-	x = x[:m]
-	for a := 0; a < m; a++ {
-		xa, up := x[a], upper[a]
-		t, h, r := tail[a], head[a], rate[a]
-		if lower[a] != 0 || xa < 0 || xa > up || xa == inf || uint32(t) >= uint32(nv) || uint32(h) >= uint32(nv) || r == math.MinInt64 {
-			return false, false, nil
-		}
-		maxRate = max(maxRate, uint64(abs64(r)))
-		// (flow[a] is 0 in a new solver; the restricted optimum's flows
-		// are set below.)
-		if up == 0 {
-			state[a] = stateTree // fixed
-			continue
-		}
-		state[a] = stateLower
-		if xa != 0 {
-			var e1, e2 error
-			netout[t], e1 = AddChecked(netout[t], xa)
-			netout[h], e2 = SubChecked(netout[h], xa)
-			if e1 != nil || e2 != nil {
-				return false, false, nil
-			}
-			lanes = append(lanes, int32(a))
-			continue
-		}
-		if bt := &best[t]; r < bt.r2 {
-			keep(bt, r, int32(a))
-		}
-		if bh := &best[h]; r < bh.r2 {
-			keep(bh, r, int32(a))
-		}
+	lanes, maxRate, fine := siftScan(x[:m], n.Lower[:m], n.Upper[:m], s.tail[:m], s.head[:m], s.rate[:m], s.state[:m], netout, best)
+	if !fine {
+		return false, false, nil
 	}
+	tail, head, rate, upper := s.tail[:m], s.head[:m], s.rate[:m], n.Upper[:m]
+	flow, state := s.flow[:m], s.state[:m]
 	for v := 0; v < nv; v++ {
 		if netout[v] != n.Supply[v] {
 			return false, false, nil
@@ -190,13 +147,7 @@ func (s *simplex) sift(x []int64) (ok, proved bool, err error) {
 
 		// Price every lane (those of the restricted network have the
 		// right sign already).
-		viol = viol[:0]
-		pot := s.pot
-		for a, st := range state {
-			if st != stateTree && int64(st)*(rate[a]+pot[tail[a]]-pot[head[a]]) < 0 {
-				viol = append(viol, int32(a))
-			}
-		}
+		viol = siftPrice(state, rate, tail, head, s.pot, viol[:0])
 		if len(viol) == 0 {
 			return true, true, nil
 		}
@@ -220,4 +171,77 @@ func (s *simplex) sift(x []int64) (ok, proved bool, err error) {
 		}
 		t, pivots, cost = add.s, pivots+add.Pivots, add.Cost
 	}
+}
+
+// cheapTwo holds a node's two cheapest lanes (rates r1 <= r2; lane -1:
+// none yet).
+type cheapTwo struct {
+	r1, r2 int64
+	a1, a2 int32
+}
+
+// siftScan is the first pass of sift over the lanes (arrays of equal
+// length): it checks the plan x and the lanes as warmStart's first pass
+// does (ok false at the first failure: x outside [0, upper] or NoLimit, a
+// minimum, a node out of range, a rate of math.MinInt64), sets each
+// lane's state (at zero flow, or fixed when upper is 0), adds the plan's
+// node balances into netout (ok false on overflow), and returns the lanes
+// with flow and the largest |rate|; best gets each node's two cheapest
+// lanes at zero flow with room (ties: the first). A function of its own so
+// that the loop's state stays in registers.
+func siftScan(x, lower, upper []int64, tail, head []NodeID, rate []int64, state []int8, netout []int64, best []cheapTwo) (used []int32, maxRate uint64, ok bool) {
+	m := len(x)
+	lower, upper, tail, head, rate, state = lower[:m], upper[:m], tail[:m], head[:m], rate[:m], state[:m]
+	nv := uint32(len(best))
+	for a, xa := range x {
+		up, t, h, r := upper[a], tail[a], head[a], rate[a]
+		if lower[a] != 0 || xa < 0 || xa > up || xa == inf || uint32(t) >= nv || uint32(h) >= nv || r == math.MinInt64 {
+			return nil, 0, false
+		}
+		maxRate = max(maxRate, uint64(abs64(r)))
+		if up == 0 {
+			state[a] = stateTree // fixed
+			continue
+		}
+		state[a] = stateLower
+		if xa != 0 {
+			var e1, e2 error
+			netout[t], e1 = AddChecked(netout[t], xa)
+			netout[h], e2 = SubChecked(netout[h], xa)
+			if e1 != nil || e2 != nil {
+				return nil, 0, false
+			}
+			used = append(used, int32(a))
+			continue
+		}
+		if b := &best[t]; r < b.r2 {
+			b.offer(r, int32(a))
+		}
+		if b := &best[h]; r < b.r2 {
+			b.offer(r, int32(a))
+		}
+	}
+	return used, maxRate, true
+}
+
+// offer keeps lane a of rate r (below r2) among the two cheapest.
+func (b *cheapTwo) offer(r int64, a int32) {
+	if r < b.r1 {
+		b.r2, b.a2, b.r1, b.a1 = b.r1, b.a1, r, a
+	} else {
+		b.r2, b.a2 = r, a
+	}
+}
+
+// siftPrice appends to viol the lanes not in the tree whose reduced cost
+// (potentials pot) has the wrong sign for their state. One pass.
+func siftPrice(state []int8, rate []int64, tail, head []NodeID, pot []int64, viol []int32) []int32 {
+	m := len(state)
+	rate, tail, head = rate[:m], tail[:m], head[:m]
+	for a, st := range state {
+		if st != stateTree && int64(st)*(rate[a]+pot[tail[a]]-pot[head[a]]) < 0 {
+			viol = append(viol, int32(a))
+		}
+	}
+	return viol
 }
