@@ -26,10 +26,11 @@ const (
 )
 
 // siftable reports whether a warm start sifts: a dense network (see
-// siftMinLanes, below the size where the warm start sweeps) whose supply
-// equals its demand; sift checks the rest.
+// siftMinLanes) whose supply equals its demand; sift checks the rest.
+// (The warm start by sweeps, on dense networks of sweepMinLanes lanes and
+// more, then serves those with excess supply or lane minimums.)
 func (s *simplex) siftable(balanced bool) bool {
-	return balanced && s.hold < 0 && s.m >= siftMinLanes && s.m >= siftDegree*s.nNodes && s.m < sweepMinLanes
+	return balanced && s.hold < 0 && s.m >= siftMinLanes && s.m >= siftDegree*s.nNodes
 }
 
 // sift is the warm start by sifting (see siftMinLanes) from the plan x.

@@ -783,8 +783,11 @@ func TestSolveRepair(t *testing.T) {
 		{"transport sparse", netgen.Transport(22, 400, 300, 4000, 1000)},
 		{"general", netgen.General(23, 3000, 20000, 150, 150, 0.3, 100)},
 		{"general capacitated", netgen.General(24, 800, 6000, 40, 40, 1, 1000)},
-		// Dense enough for the search by sweeps (denseLanes).
+		// Dense, supply equal to demand: the warm start sifts.
 		{"transport complete capacitated, dense", capToMin(netgen.Transport(25, 900, 900, 0, 1000))},
+		// Dense enough for the search by sweeps (denseLanes), which serves
+		// networks with excess supply.
+		{"transport complete capacitated, dense, excess supply", withExcess(capToMin(netgen.Transport(26, 900, 900, 0, 1000)), 500)},
 	}
 	for _, c := range cases {
 		t.Run(c.name, func(t *testing.T) {
@@ -799,8 +802,11 @@ func TestSolveRepair(t *testing.T) {
 				t.Fatalf("from the optimum: %v, warm %v", err, same.WarmStarted)
 			}
 			checkOptimal(t, n, same)
-			if same.Pivots > 5 {
-				t.Errorf("from the optimum: %d pivots", same.Pivots)
+			// (A warm start by sifting pivots on its restricted network,
+			// where degenerate pivots may still reshape the tree: a small
+			// share of a cold solve's.)
+			if limit := int64(5); same.Pivots > limit && (!flow.Sifted(same) || same.Pivots > sol.Pivots/20) {
+				t.Errorf("from the optimum: %d pivots (cold %d, sifted %v)", same.Pivots, sol.Pivots, flow.Sifted(same))
 			}
 			for seed := uint64(31); seed < 34; seed++ {
 				y := netgen.Perturb(seed, n, sol.Flow, sol.InTree, 10)
@@ -810,6 +816,9 @@ func TestSolveRepair(t *testing.T) {
 				}
 				if !w.WarmStarted {
 					t.Fatalf("seed %d: not warm started", seed)
+				}
+				if dense := len(n.Tail) >= 1<<15 && len(n.Tail) >= 32*len(n.Nodes); flow.Sifted(w) != (dense && balanced(n)) {
+					t.Fatalf("seed %d: sifted %v on a network dense %v, balanced %v", seed, flow.Sifted(w), dense, balanced(n))
 				}
 				checkOptimal(t, n, w)
 				if w.Cost.Cmp(sol.Cost) != 0 {
@@ -828,6 +837,27 @@ func TestSolveRepair(t *testing.T) {
 // which a warm start searches by sweeps instead of lists (flow's
 // sweepMinLanes and sweepDegree).
 const denseLanes = 3 << 18
+
+// balanced reports whether n's supply equals its demand.
+func balanced(n *flow.Network) bool {
+	var t int64
+	for _, b := range n.Supply {
+		t += b
+	}
+	return t == 0
+}
+
+// withExcess adds q units of supply at the first origin (so origins may
+// keep part of their supply).
+func withExcess(n *flow.Network, q int64) *flow.Network {
+	for v, b := range n.Supply {
+		if b > 0 {
+			n.Supply[v] += q
+			break
+		}
+	}
+	return n
+}
 
 // capToMin gives every lane of a transportation network the capacity
 // min(supply of its origin, demand of its destination), the bound used by
@@ -904,8 +934,9 @@ func splitPlan(r *flow.Network, k int, x []int64) []int64 {
 	return y
 }
 
-// TestSolveRepairDense exercises the warm start by sweeps, which only
-// networks of at least denseLanes lanes use: small random networks (all
+// TestSolveRepairDense exercises the warm starts of large dense networks
+// (at least denseLanes lanes): by sweeps where some lane has a minimum or
+// supply exceeds demand, by sifting otherwise. Small random networks (all
 // features of randnet: minimums, capacities, excess supply, negative
 // rates, decimal places) with every lane split into parallel lanes up to
 // that size (the same problem), so that the LP oracle and a cold solve
