@@ -634,24 +634,10 @@ func newSimplex(n *Network, hold bool, excess int64) (*simplex, error) {
 	s.stemAfter = make([]int32, nt)
 	s.stemLast = make([]int32, nt)
 	s.stemUp = make([]bool, nt)
-	s.block = blockSize(na, s.m, s.nNodes)
+	s.block = max(10, int(math.Sqrt(float64(na))))
 	s.pred[s.root] = -1
 	s.parent[s.root] = -1
 	return s, nil
-}
-
-// blockSize is the block of the pivot rule (findEntering) for na arcs, m
-// of them lanes, on nn nodes: g·sqrt(na) arcs, at least 10, where g =
-// sqrt(40·nn/m) within [1, 2]: sparse networks (10 lanes per node and
-// fewer) take blocks twice the usual square root, networks with 40 lanes
-// per node and more the square root. Measured against the square root on
-// the generated instances of BENCHMARKS.md (third session).
-func blockSize(na, m, nn int) int {
-	g := 1.0
-	if m > 0 {
-		g = min(2, max(1, math.Sqrt(40*float64(nn)/float64(m))))
-	}
-	return max(10, int(g*math.Sqrt(float64(na))))
 }
 
 // setShiftedCaps copies the lane capacities above the minimums when some
