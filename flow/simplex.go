@@ -329,10 +329,11 @@ func (s *simplex) costOf(a int32) int64 {
 // reduced cost 0 in the direction in which it can still move; the search
 // starts from H under excess supply, else from the largest part, and
 // parts it cannot reach hang from R by artificial arcs of zero flow (never
-// used again). From an optimal plan this gives an optimal tree. Lanes the
-// search finds closing cycles of negative cost (it refuses them) are
-// pivoted into that tree and the search is run once more from the new
-// plan (maxRounds); then block search finishes. A plan that is optimal
+// used again). From an optimal plan this gives an optimal tree. When no
+// lane inside a part had to be cancelled, lanes the search finds closing
+// cycles of negative cost (it refuses them) are pivoted into that tree and
+// the search is run once more from the new plan (one round of cancelling
+// in all, maxRounds); then block search finishes. A plan that is optimal
 // except for a few cycles thus needs two or three passes over the lanes,
 // one or two searches over the lanes at a bound, a few pivots per cycle
 // and the final pricing.
@@ -2021,8 +2022,12 @@ func (s *simplex) warmStart(x []int64) (bool, []int32, bool, bool, error) {
 const maxPicks = 32
 
 // maxRounds bounds the rounds of a warm start that cancel cycles of
-// negative cost before the first tree is kept.
-const maxRounds = 2
+// negative cost before the first tree is kept. One round: a second one
+// (then a third search) cut the pivots but cost more than the block search
+// spends on them (the repairs of BENCHMARKS.md, third session: 0.74-0.91x
+// of the time with two rounds on general, sparse and, in the restricted
+// solves of sifting, dense networks).
+const maxRounds = 1
 
 // coarser reports whether every part of prev lies inside one part of
 // next (both give each node its part's smallest node). O(|V|).
