@@ -1997,7 +1997,7 @@ func (s *simplex) warmStart(x []int64) (bool, []int32, bool, bool, error) {
 			}
 			continue
 		}
-		try := s.completeTree(forest, comp, rho, lists)
+		try, proved := s.completeTree(forest, comp, rho, lists)
 		if len(try) > 0 && round < maxRounds {
 			// Lanes the search found closing cycles of negative cost
 			// (across parts, or inside one): pivot them into the tree
@@ -2013,7 +2013,8 @@ func (s *simplex) warmStart(x []int64) (bool, []int32, bool, bool, error) {
 			}
 			continue
 		}
-		return true, superbasic, false, false, nil
+		// (Proved: the final pricing is skipped.)
+		return true, superbasic, proved && len(superbasic) == 0, false, nil
 	}
 }
 
@@ -2252,9 +2253,13 @@ func partMembers(comp []int32, nn int) (cstart, members []int32) {
 // changed since; entries whose state no longer matches are skipped). It
 // returns, sorted, up to maxRefused arcs found closing cycles of negative
 // cost: arcs between parts the search refused, and arcs inside a part
-// with the wrong sign of reduced cost. Time O(|V|) plus the search,
-// capped at about eight passes over the lists.
-func (s *simplex) completeTree(forest, comp []int32, rho []int64, lists [2]partLists) []int32 {
+// with the wrong sign of reduced cost. It also reports whether the tree is
+// proved optimal: when nothing was refused, one search reached every part
+// and ran to the end (not capped, unchecked arithmetic), every listed arc
+// was read after the offset of its part was final and kept the right
+// sign, and the lists hold every arc at a bound. Time O(|V|) plus the
+// search, capped at about eight passes over the lists.
+func (s *simplex) completeTree(forest, comp []int32, rho []int64, lists [2]partLists) ([]int32, bool) {
 	nn := s.nNodes
 	cstart, members := partMembers(comp, nn)
 	q := newPartSearch(comp, rho, s.state, !s.checked)
@@ -2319,8 +2324,9 @@ func (s *simplex) completeTree(forest, comp []int32, rho []int64, lists [2]partL
 		}
 	}
 	s.setTree(tree)
+	proved := len(q.refused) == 0 && q.improve && q.cur == 1
 	slices.Sort(q.refused)
-	return slices.Compact(q.refused)
+	return slices.Compact(q.refused), proved
 }
 
 // partSearch is the label-correcting search of completeTree over the
