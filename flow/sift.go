@@ -25,12 +25,12 @@ const (
 	siftRounds   = 6       // pricing passes before block search takes over
 )
 
-// siftable reports whether a warm start sifts: a dense network (see
-// siftMinLanes) whose supply equals its demand; sift checks the rest.
-// (The warm start by sweeps, on dense networks of sweepMinLanes lanes and
-// more, then serves those with excess supply or lane minimums.)
-func (s *simplex) siftable(balanced bool) bool {
-	return balanced && s.hold < 0 && s.m >= siftMinLanes && s.m >= siftDegree*s.nNodes
+// siftable reports whether a warm start on a network whose supply equals
+// its demand sifts: a dense network (see siftMinLanes); sift checks the
+// rest. (The warm start by sweeps, on dense networks of sweepMinLanes
+// lanes and more, serves those with excess supply or lane minimums.)
+func (s *simplex) siftable() bool {
+	return s.hold < 0 && s.m >= siftMinLanes && s.m >= siftDegree*s.nNodes
 }
 
 // sift is the warm start by sifting (see siftMinLanes) from the plan x.

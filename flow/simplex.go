@@ -417,7 +417,7 @@ func Solve(n *Network, opt SolveOptions) (*Solution, error) {
 
 	warm, proved := false, false
 	var superbasic []int32
-	if tryWarm && supply == demand && !opt.keepSim && (opt.siftAlways || s.siftable(true)) {
+	if tryWarm && supply == demand && !opt.keepSim && (opt.siftAlways || s.siftable()) {
 		if warm, proved, err = s.sift(opt.Start); err != nil {
 			return nil, err
 		}

@@ -990,23 +990,33 @@ func TestSolveRepairDense(t *testing.T) {
 			if err != nil {
 				t.Fatalf("%s, start %d: %v", name, j, err)
 			}
-			if !w.WarmStarted || w.Status != sol.Status {
-				t.Fatalf("%s, start %d: warm %v, status %v, cold %v", name, j, w.WarmStarted, w.Status, sol.Status)
-			}
-			switch w.Status {
-			case flow.Optimal:
-				checkOptimal(t, n, w)
-				if w.Cost.Cmp(sol.Cost) != 0 || !oracle.SameCost(w.Cost, n.QtyPlaces+n.RatePlaces, res) {
-					t.Fatalf("%s, start %d: warm cost %s, cold %s, oracle %g", name, j, w.Cost.Format(0), sol.Cost.Format(0), res.CostScaled)
-				}
-			case flow.Unbounded:
-				checkCycle(t, n, w.Cycle)
-			}
+			checkWarm(t, fmt.Sprintf("%s, start %d", name, j), n, w, sol, res)
 		}
 	}
 	t.Logf("statuses %v", counts)
 	if counts[oracle.Optimal] < 3 || counts[oracle.Unbounded] < 1 {
 		t.Errorf("statuses %v: the cases no longer cover optimal and unbounded", counts)
+	}
+}
+
+// checkWarm checks a warm solve w of n against the cold solve sol and the
+// LP oracle's result res: it must have started warm, with the cold status;
+// an optimum must pass the independent checker at the cold and the
+// oracle's cost, an unbounded result give a cycle of negative cost
+// without capacity.
+func checkWarm(t *testing.T, name string, n *flow.Network, w, sol *flow.Solution, res oracle.Result) {
+	t.Helper()
+	if !w.WarmStarted || w.Status != sol.Status {
+		t.Fatalf("%s: warm %v, status %v, cold %v", name, w.WarmStarted, w.Status, sol.Status)
+	}
+	switch w.Status {
+	case flow.Optimal:
+		checkOptimal(t, n, w)
+		if w.Cost.Cmp(sol.Cost) != 0 || !oracle.SameCost(w.Cost, n.QtyPlaces+n.RatePlaces, res) {
+			t.Fatalf("%s: warm cost %s, cold %s, oracle %g", name, w.Cost.Format(0), sol.Cost.Format(0), res.CostScaled)
+		}
+	case flow.Unbounded:
+		checkCycle(t, n, w.Cycle)
 	}
 }
 
@@ -1286,18 +1296,7 @@ func TestSolveSiftOracle(t *testing.T) {
 			if flow.Sifted(w) {
 				sifted++
 			}
-			if !w.WarmStarted || w.Status != sol.Status {
-				t.Fatalf("%s, start %d: warm %v, status %v, cold %v", name, j, w.WarmStarted, w.Status, sol.Status)
-			}
-			switch w.Status {
-			case flow.Optimal:
-				checkOptimal(t, n, w)
-				if w.Cost.Cmp(sol.Cost) != 0 || !oracle.SameCost(w.Cost, n.QtyPlaces+n.RatePlaces, res) {
-					t.Fatalf("%s, start %d: sifted cost %s, cold %s, oracle %g", name, j, w.Cost.Format(0), sol.Cost.Format(0), res.CostScaled)
-				}
-			case flow.Unbounded:
-				checkCycle(t, n, w.Cycle)
-			}
+			checkWarm(t, fmt.Sprintf("%s, start %d", name, j), n, w, sol, res)
 		}
 	}
 	t.Logf("statuses %v; %d of %d warm solves sifted", counts, sifted, solves)
