@@ -336,7 +336,8 @@ func (s *simplex) costOf(a int32) int64 {
 // in all, maxRounds); then block search finishes. A plan that is optimal
 // except for a few cycles thus needs two or three passes over the lanes,
 // one or two searches over the lanes at a bound, a few pivots per cycle
-// and the final pricing.
+// and the final pricing (skipped when the last search, refusing nothing,
+// reached every part: its tree is then optimal).
 //
 // On a dense network (at least 32,768 lanes and 32 per node, see
 // siftMinLanes) whose supply equals its demand and whose lanes have no
@@ -354,19 +355,19 @@ func (s *simplex) costOf(a int32) int64 {
 // from the whole network's, and the search above serves better.
 //
 // On a large dense network (at least 786,432 lanes and 64 per node, see
-// sweepMinLanes) that does not sift the warm start lists nothing: the same search runs as
-// sweeps over the lanes in index order with the potentials kept per node
-// (each sweep a pass of pricing; after a full sweep only the lanes with a
-// small reduced cost are read again while no part has risen by more), and
-// it starts from the current tree. The first sweep also finds the lanes
-// with the wrong sign inside parts; they are pivoted in (in the tree of
-// the search so far) and the search goes on from there. Lanes a search
-// refuses are pivoted into its tree and the search is run again from that
-// tree, up to maxSweepTries times. When the last search finds no lane
-// with the wrong sign of reduced cost its tree is optimal and the final
-// pricing is skipped; otherwise block search finishes. Cold and warm
-// solves reach the same optimal cost (the plans and potentials may differ
-// where the optimum is not unique).
+// sweepMinLanes) that does not sift the warm start lists nothing: the same
+// search runs as sweeps over the lanes in index order with the potentials
+// kept per node (each sweep a pass of pricing; after a full sweep only the
+// lanes with a small reduced cost are read again while no part has risen
+// by more), and it starts from the current tree. The first sweep also
+// finds the lanes with the wrong sign inside parts; they are pivoted in
+// (in the tree of the search so far) and the search goes on from there.
+// Lanes a search refuses are pivoted into its tree and the search is run
+// again from that tree, up to maxSweepTries times. When the last search
+// finds no lane with the wrong sign of reduced cost its tree is optimal
+// and the final pricing is skipped; otherwise block search finishes. Cold
+// and warm solves reach the same optimal cost (the plans and potentials
+// may differ where the optimum is not unique).
 //
 // Cost: each pivot takes O(sqrt(|E|)) arc scans plus time linear in the
 // length of the cycle and the size of the moved subtree; the number of
@@ -374,15 +375,15 @@ func (s *simplex) costOf(a int32) int64 {
 // practice a small multiple of |V|); a warm start adds O(|V|+|E|) to build
 // its first tree (each search by lists is capped at about eight passes
 // over the lanes at a bound, each search by sweeps at 12 full sweeps).
-// Memory: the solver reads the Network's lane arrays in place and keeps
-// 9 bytes per lane (flows and states; plus 8 more, a copy of the
-// capacities above the minimums, when some lane has a minimum) and about
-// 150 bytes per node; a warm start adds 16 bytes per lane at a bound
-// while it builds its tree (by sweeps: 20 bytes for each of at most
-// |E|/8 lanes read again; by sifting: 1 bit per lane plus the restricted
-// network, at most a quarter of the lanes). The Solution adds 1 byte per lane (InTree),
-// and 8 per lane for Flow only when some lane has a minimum (otherwise
-// Flow is the solver's flow array).
+// Memory: the solver reads the Network's lane arrays in place and keeps 9
+// bytes per lane (flows and states; plus 8 more, a copy of the capacities
+// above the minimums, when some lane has a minimum) and about 150 bytes
+// per node; a warm start adds 16 bytes per lane at a bound while it builds
+// its tree (by sweeps: 20 bytes for each of at most |E|/8 lanes read
+// again; by sifting: 1 bit per lane plus the restricted network, at most a
+// quarter of the lanes). The Solution adds 1 byte per lane (InTree), and 8
+// per lane for Flow only when some lane has a minimum (otherwise Flow is
+// the solver's flow array).
 //
 // The error is non-nil only when n is invalid (n.Validate) or a value
 // overflows; infeasible and unbounded problems are Status values.
