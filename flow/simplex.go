@@ -432,10 +432,7 @@ func Solve(n *Network, opt SolveOptions) (*Solution, error) {
 		}
 		if unb {
 			sol.WarmStarted = true
-			sol.Status = Unbounded
-			sol.Cycle = s.cycle
-			sol.Pivots = s.pivots
-			return sol, nil
+			return s.unbounded(sol, s.cycle), nil
 		}
 	}
 	sol.WarmStarted = warm
@@ -452,10 +449,7 @@ func Solve(n *Network, opt SolveOptions) (*Solution, error) {
 				return nil, err
 			}
 			if unb {
-				sol.Status = Unbounded
-				sol.Cycle = s.cycle
-				sol.Pivots = s.pivots
-				return sol, nil
+				return s.unbounded(sol, s.cycle), nil
 			}
 		}
 	} else {
@@ -506,10 +500,7 @@ func Solve(n *Network, opt SolveOptions) (*Solution, error) {
 			if s.artFlow() > 0 {
 				return s.infeasible(sol)
 			}
-			sol.Status = Unbounded
-			sol.Cycle = cyc
-			sol.Pivots = s.pivots
-			return sol, nil
+			return s.unbounded(sol, cyc), nil
 		}
 		if s.artFlow() > 0 {
 			return s.infeasible(sol)
@@ -527,10 +518,7 @@ func Solve(n *Network, opt SolveOptions) (*Solution, error) {
 			return nil, err
 		}
 		if unb {
-			sol.Status = Unbounded
-			sol.Cycle = s.cycle
-			sol.Pivots = s.pivots
-			return sol, nil
+			return s.unbounded(sol, s.cycle), nil
 		}
 	}
 	if sol, err = s.optimal(sol); err != nil {
@@ -1431,6 +1419,14 @@ func (s *simplex) infeasible(sol *Solution) (*Solution, error) {
 		}
 	}
 	return sol, nil
+}
+
+// unbounded fills sol for an unbounded problem with its cycle.
+func (s *simplex) unbounded(sol *Solution, cycle []CycleStep) *Solution {
+	sol.Status = Unbounded
+	sol.Cycle = cycle
+	sol.Pivots = s.pivots
+	return sol
 }
 
 // optimal fills sol from an optimal phase-two tree.
