@@ -1879,6 +1879,17 @@ func (s *simplex) warmStart(x []int64) (bool, []int32, bool, bool, error) {
 		}
 		return false, nil
 	}
+	// cancelInTree pivots the arcs of try into the current tree (see
+	// cancel; the tree arcs that are not artificial may change flow).
+	cancelInTree := func(try []int32) (bool, error) {
+		touched := append([]int32(nil), try...)
+		for v := 0; v < nn; v++ {
+			if a := s.pred[v]; int(a) < s.artStart {
+				touched = append(touched, a)
+			}
+		}
+		return cancel(nil, try, touched)
+	}
 	// artTree is the forest with each part hung from R by the artificial
 	// arc of its smallest node: a strongly feasible tree of free arcs.
 	artTree := func() []int32 {
@@ -1951,13 +1962,7 @@ func (s *simplex) warmStart(x []int64) (bool, []int32, bool, bool, error) {
 			default:
 				return true, superbasic, res.optimal && len(superbasic) == 0, false, nil
 			}
-			touched := append([]int32(nil), try...)
-			for v := 0; v < nn; v++ {
-				if a := s.pred[v]; int(a) < s.artStart {
-					touched = append(touched, a)
-				}
-			}
-			if unb, err := cancel(nil, try, touched); err != nil || unb {
+			if unb, err := cancelInTree(try); err != nil || unb {
 				return true, nil, false, unb, err
 			}
 		}
@@ -1999,13 +2004,7 @@ func (s *simplex) warmStart(x []int64) (bool, []int32, bool, bool, error) {
 			// Lanes the search found closing cycles of negative cost
 			// (across parts, or inside one): pivot them into the tree
 			// just built, then search again from the new plan.
-			touched := append([]int32(nil), try...)
-			for v := 0; v < nn; v++ {
-				if a := s.pred[v]; int(a) < s.artStart {
-					touched = append(touched, a)
-				}
-			}
-			if unb, err := cancel(nil, try, touched); err != nil || unb {
+			if unb, err := cancelInTree(try); err != nil || unb {
 				return true, nil, false, unb, err
 			}
 			continue

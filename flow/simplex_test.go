@@ -959,14 +959,7 @@ func TestSolveRepairDense(t *testing.T) {
 		k := (denseLanes + len(small.Tail) - 1) / len(small.Tail)
 		n := replicate(small, k)
 		name := fmt.Sprintf("case %d (%d nodes, %d lanes x %d)", i, len(n.Nodes), len(small.Tail), k)
-		res, err := oracle.MinCost(small)
-		if err != nil {
-			t.Fatalf("%s: oracle: %v", name, err)
-		}
-		sol, err := flow.Solve(small, flow.SolveOptions{})
-		if err != nil {
-			t.Fatalf("%s: %v", name, err)
-		}
+		res, sol := oracleAndCold(t, name, small)
 		counts[res.Status]++
 		if sol.Status.String() != res.Status.String() {
 			t.Fatalf("%s: cold status %v, oracle %v", name, sol.Status, res.Status)
@@ -997,6 +990,20 @@ func TestSolveRepairDense(t *testing.T) {
 	if counts[oracle.Optimal] < 3 || counts[oracle.Unbounded] < 1 {
 		t.Errorf("statuses %v: the cases no longer cover optimal and unbounded", counts)
 	}
+}
+
+// oracleAndCold returns the LP oracle's result for n and n's cold solve.
+func oracleAndCold(t *testing.T, name string, n *flow.Network) (oracle.Result, *flow.Solution) {
+	t.Helper()
+	res, err := oracle.MinCost(n)
+	if err != nil {
+		t.Fatalf("%s: oracle: %v", name, err)
+	}
+	sol, err := flow.Solve(n, flow.SolveOptions{})
+	if err != nil {
+		t.Fatalf("%s: %v", name, err)
+	}
+	return res, sol
 }
 
 // checkWarm checks a warm solve w of n against the cold solve sol and the
@@ -1265,14 +1272,7 @@ func TestSolveSiftOracle(t *testing.T) {
 		}
 		n := randnet.Network(rng, o)
 		name := fmt.Sprintf("case %d (%d nodes, %d lanes)", i, len(n.Nodes), len(n.Tail))
-		res, err := oracle.MinCost(n)
-		if err != nil {
-			t.Fatalf("%s: oracle: %v", name, err)
-		}
-		sol, err := flow.Solve(n, flow.SolveOptions{})
-		if err != nil {
-			t.Fatalf("%s: %v", name, err)
-		}
+		res, sol := oracleAndCold(t, name, n)
 		if sol.Status.String() != res.Status.String() {
 			t.Fatalf("%s: cold status %v, oracle %v", name, sol.Status, res.Status)
 		}
