@@ -964,21 +964,35 @@ func (s *simplex) findEntering() (int32, int64) {
 // stop is the arc after the block end when a block ends holding an
 // eligible arc, else -1.
 func scanArcs(state []int8, cost []int64, src, tgt []int32, pot []int64, lo, hi, base int, best int32, bestV int64, cnt, block int) (int32, int64, int, int) {
-	state, cost, src, tgt = state[:hi], cost[:hi], src[:hi], tgt[:hi]
-	for e := lo; e < hi; e++ {
-		v := int64(state[e]) * (cost[e] + pot[src[e]] - pot[tgt[e]])
-		if v < bestV {
-			bestV, best = v, int32(base+e)
+	for lo < hi {
+		end := min(hi, lo+cnt)
+		if i, v := scanBlock(state[lo:end], cost[lo:end], src[lo:end], tgt[lo:end], pot, bestV); i >= 0 {
+			best, bestV = int32(base+lo+i), v
 		}
-		cnt--
+		cnt -= end - lo
+		lo = end
 		if cnt == 0 {
 			if best >= 0 {
-				return best, bestV, cnt, base + e + 1
+				return best, bestV, cnt, base + end
 			}
 			cnt = block
 		}
 	}
 	return best, bestV, cnt, -1
+}
+
+// scanBlock returns the index in state of the arc with the least
+// state·reduced cost below bestV, and that value, or -1.
+func scanBlock(state []int8, cost []int64, src, tgt []int32, pot []int64, bestV int64) (int, int64) {
+	best := -1
+	cost, src, tgt = cost[:len(state)], src[:len(state)], tgt[:len(state)]
+	for i, st := range state {
+		v := int64(st) * (cost[i] + pot[src[i]] - pot[tgt[i]])
+		if v < bestV {
+			bestV, best = v, i
+		}
+	}
+	return best, bestV
 }
 
 // findEnteringChecked is findEntering with overflow checks on the reduced
@@ -1063,41 +1077,52 @@ func (s *simplex) pivot(in int32, dir int8, r int64) (bool, error) {
 	if dir < 0 {
 		first, second = second, first
 	}
-	// Apex: climb from the smaller subtree.
+	// Apex and leaving arc in one climb, always from the smaller subtree
+	// (the node with the larger subtree is never below the other). The
+	// leaving arc follows Cunningham's rule: the last blocking arc met when
+	// walking the cycle in the direction of flow from the apex (apex down
+	// to first, the entering arc, second up to the apex). Each side is
+	// climbed upwards, so the first side keeps its lowest minimum (strict
+	// <) and the second side its highest (<=).
 	size := s.size
 	u, v := first, second
 	su, sv := size[u], size[v]
+	delta1, delta2 := int64(inf), int64(inf)
+	leave1, leave2 := int32(-1), int32(-1)
 	for u != v {
 		if su < sv {
+			a := pred[u]
+			var d int64
+			if up[u] {
+				d = flow[a]
+			} else if c := s.capOf(a); c == inf {
+				d = inf
+			} else {
+				d = c - flow[a]
+			}
+			if d < delta1 {
+				delta1, leave1 = d, u
+			}
 			u = parent[u]
 			su = size[u]
 		} else {
+			a := pred[v]
+			var d int64
+			if !up[v] {
+				d = flow[a]
+			} else if c := s.capOf(a); c == inf {
+				d = inf
+			} else {
+				d = c - flow[a]
+			}
+			if d <= delta2 {
+				delta2, leave2 = d, v
+			}
 			v = parent[v]
 			sv = size[v]
 		}
 	}
 	apex := u
-
-	// Leaving arc (Cunningham): the last blocking arc met when walking the
-	// cycle in the direction of flow from the apex: apex down to first,
-	// the entering arc, second up to the apex.
-	delta := int64(inf)
-	leave := int32(-1) // node whose pred leaves; -1: the entering arc
-	side := 0
-	for u := first; u != apex; u = parent[u] {
-		a := pred[u]
-		var d int64
-		if up[u] {
-			d = flow[a]
-		} else if c := s.capOf(a); c == inf {
-			d = inf
-		} else {
-			d = c - flow[a]
-		}
-		if d < delta {
-			delta, leave, side = d, u, 1
-		}
-	}
 	var dIn int64
 	if dir > 0 {
 		if c := s.capOf(in); c == inf {
@@ -1108,22 +1133,13 @@ func (s *simplex) pivot(in int32, dir int8, r int64) (bool, error) {
 	} else {
 		dIn = flow[in]
 	}
+	// leave: the node whose pred leaves, or -1 for the entering arc.
+	delta, leave, side := delta1, leave1, 1
 	if dIn <= delta {
 		delta, leave, side = dIn, -1, 0
 	}
-	for u := second; u != apex; u = parent[u] {
-		a := pred[u]
-		var d int64
-		if !up[u] {
-			d = flow[a]
-		} else if c := s.capOf(a); c == inf {
-			d = inf
-		} else {
-			d = c - flow[a]
-		}
-		if d <= delta {
-			delta, leave, side = d, u, 2
-		}
+	if delta2 <= delta {
+		delta, leave, side = delta2, leave2, 2
 	}
 	if delta == inf {
 		s.recordCycle(in, first, second, apex)
