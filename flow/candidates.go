@@ -34,11 +34,12 @@ var candidateColumns = []string{"lane", "from", "to", "cost", "min", "max", "fix
 // more decimal places than n's rates rescales n's rates (n is changed); a
 // quantity with more places than n's quantities is an error. Errors are
 // positioned and collected as an ErrorList. O(rows + |V|).
-func ReadCandidates(rd io.Reader, file string, n *Network, opt TableOptions) ([]Candidate, error) {
+func ReadCandidates(rd io.Reader, file string, n *Network, opt TableOptions) (_ []Candidate, err error) {
 	data, err := io.ReadAll(rd)
 	if err != nil {
 		return nil, fmt.Errorf("flow: reading %s: %w", file, err)
 	}
+	defer func() { err = textColumns(err, file, data) }()
 	e := &errs{file: file}
 	if opt.Columns == nil {
 		opt.Columns = map[string]string{}

@@ -31,6 +31,8 @@ func TestReadCandidatesErrors(t *testing.T) {
 		{"duplicate id", "bid,from,to,rate\nQ1,A,C,3\nQ1,C,A,4\n", 3, 1, "lane", flow.ErrDuplicate},
 		{"negative capacity", "bid,from,to,rate,max\nQ1,A,C,3,-1\n", 2, 10, "max", flow.ErrNegative},
 		{"too many places", "bid,from,to,rate,max\nQ1,A,C,3,1.5\n", 2, 10, "max", flow.ErrSyntax},
+		// "Q€,A,C,3,-1": max at character 10 (byte 12).
+		{"characters before the cell", "bid,from,to,rate,max\nQ€,A,C,3,-1\n", 2, 10, "max", flow.ErrNegative},
 		{"missing rate column", "bid,from,to\nQ1,A,C\n", 1, 0, "header", flow.ErrMissingColumn},
 	}
 	for _, c := range cases {

@@ -65,14 +65,22 @@ func ReadCSVNetwork(lanes io.Reader, lanesFile string, nodes io.Reader, nodesFil
 }
 
 // readCSVNetwork is ReadCSVNetwork on the lane table's bytes.
-func readCSVNetwork(data []byte, lanesFile string, nodes io.Reader, nodesFile string, opt TableOptions) (*Network, *RawPlan, error) {
+func readCSVNetwork(data []byte, lanesFile string, nodes io.Reader, nodesFile string, opt TableOptions) (_ *Network, _ *RawPlan, err error) {
+	var nd []byte // the node table's bytes, once read
+	defer func() {
+		err = textColumns(err, lanesFile, data)
+		if nd != nil {
+			err = textColumns(err, nodesFile, nd)
+		}
+	}()
 	lanes := func(known []string) (*table, error) {
 		return openTable(data, lanesFile, opt, known, &errs{file: lanesFile})
 	}
 	var nodeTable tableOpener
 	if nodes != nil {
 		nodeTable = func(known []string) (*table, error) {
-			nd, err := io.ReadAll(nodes)
+			var err error
+			nd, err = io.ReadAll(nodes)
 			if err != nil {
 				return nil, fmt.Errorf("flow: reading %s: %w", nodesFile, err)
 			}
@@ -465,11 +473,12 @@ func (l *laneLookup) pair(t, h NodeID) []LaneID {
 // (columns from and to), with a flow column. Lanes the plan does not name
 // carry 0. A pair with parallel lanes is ambiguous and is an error, as are
 // unknown lanes or nodes and a lane named twice.
-func ReadCSVPlan(rd io.Reader, file string, n *Network, opt TableOptions) (*RawPlan, error) {
+func ReadCSVPlan(rd io.Reader, file string, n *Network, opt TableOptions) (_ *RawPlan, err error) {
 	data, err := io.ReadAll(rd)
 	if err != nil {
 		return nil, fmt.Errorf("flow: reading %s: %w", file, err)
 	}
+	defer func() { err = textColumns(err, file, data) }()
 	e := &errs{file: file}
 	t, err := openTable(data, file, opt, planColumns, e)
 	if err != nil {

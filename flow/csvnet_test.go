@@ -140,6 +140,12 @@ func TestReadCSVNetworkLaneErrors(t *testing.T) {
 			want: []wantErr{{2, 1, "from", ErrSyntax}, {2, 4, "cost", ErrNotDecimal}, {2, 6, "min", ErrBounds}, {3, 7, "min", ErrNegative}}},
 		// `"A, Inc.",B,"x"`: the quoted name is 9 bytes, B at 11, "x" at 13.
 		{name: "after a quoted field", lanes: "from,to,cost\n\"A, Inc.\",B,\"x\"\n", want: []wantErr{{2, 13, "cost", ErrNotDecimal}}},
+		// Columns count characters, not bytes: "Zürich,Łódź,x" has x at
+		// character 13 (byte 15); a tab is one character.
+		{name: "characters before the cell", lanes: "from,to,cost\nZürich,Łódź,x\n", want: []wantErr{{2, 13, "cost", ErrNotDecimal}}},
+		{name: "characters in a quoted cell", lanes: "from,to,cost\n\"Ölhafen, Süd\",B,x\n", want: []wantErr{{2, 18, "cost", ErrNotDecimal}}},
+		{name: "characters before a syntax error", lanes: "from,to,cost\nÄ,B\"x,1\n", want: []wantErr{{2, 4, "", ErrSyntax}}},
+		{name: "tab delimiter and characters", lanes: "from\tto\tcost\né\tè\tx\n", want: []wantErr{{2, 5, "cost", ErrNotDecimal}}},
 		// A bad cost on line 2, then a CSV syntax error on line 3: both.
 		{name: "error before a syntax error", lanes: "from,to,cost\nA,B,x\nA,B\n",
 			want: []wantErr{{2, 5, "cost", ErrNotDecimal}, {3, 1, "", ErrSyntax}}},
@@ -530,6 +536,8 @@ func TestReadCSVPlanErrors(t *testing.T) {
 		{name: "unknown lane", plan: "lane,flow\nL9,1\n", want: []wantErr{{2, 1, "lane", ErrUnknownLane}}},
 		{name: "unknown from", plan: "from,to,flow\nX,C,1\n", want: []wantErr{{2, 1, "from", ErrUnknownNode}}},
 		{name: "unknown to", plan: "from,to,flow\nB,Y,1\n", want: []wantErr{{2, 3, "to", ErrUnknownNode}}},
+		// "Ä,Ö,1": to at character 3 (byte 4).
+		{name: "unknown nodes with characters", plan: "from,to,flow\nÄ,Ö,1\n", want: []wantErr{{2, 1, "from", ErrUnknownNode}, {2, 3, "to", ErrUnknownNode}}},
 		{name: "unknown both", plan: "from,to,flow\nX,Y,1\n", want: []wantErr{{2, 1, "from", ErrUnknownNode}, {2, 3, "to", ErrUnknownNode}}},
 		{name: "no lane for the pair", plan: "from,to,flow\nC,A,1\n", want: []wantErr{{2, 3, "to", ErrUnknownLane}}, msg: `no lane runs from "C" to "A"`},
 		{name: "lane twice", plan: "lane,flow\nL1,1\nL3,1\nL1,2\n", want: []wantErr{{4, 1, "lane", ErrDuplicate}}, msg: "already given on data row 1"},

@@ -28,8 +28,8 @@ func ReadDIMACS(r io.Reader, file string) (*Network, error) {
 }
 
 // parseDIMACS is ReadDIMACS on the file's bytes.
-func parseDIMACS(data []byte, file string) (*Network, error) {
-	var err error
+func parseDIMACS(data []byte, file string) (_ *Network, err error) {
+	defer func() { err = textColumns(err, file, data) }()
 	e := &errs{file: file}
 	n := &Network{}
 	var supply, lower, upper, rate rawQty
@@ -207,11 +207,12 @@ func parseDIMACS(data []byte, file string) (*Network, error) {
 // matched in file order: the k-th f line for a pair goes to the k-th lane of
 // that pair. A pair without a lane left for it is an error. O(|E| log |E|)
 // at worst, O(|E|) when the f lines follow the arc order.
-func ReadDIMACSPlan(r io.Reader, file string, n *Network) (*RawPlan, error) {
+func ReadDIMACSPlan(r io.Reader, file string, n *Network) (_ *RawPlan, err error) {
 	data, err := io.ReadAll(r)
 	if err != nil {
 		return nil, fmt.Errorf("flow: reading %s: %w", file, err)
 	}
+	defer func() { err = textColumns(err, file, data) }()
 	e := &errs{file: file}
 	m := n.NumLanes()
 	plan := &RawPlan{File: file}

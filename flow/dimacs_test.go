@@ -221,6 +221,9 @@ func TestReadDIMACSErrors(t *testing.T) {
 		{name: "negative CAP", in: p21 + "a 1 2 0 -4 1\n", want: []wantErr{{2, 9, "CAP", ErrNegative}}},
 		{name: "negative LOW", in: p21 + "a 1 2 -1 4 1\n", want: []wantErr{{2, 7, "LOW", ErrNegative}}},
 		{name: "bad LOW", in: p21 + "a 1 2 x 4 1\n", want: []wantErr{{2, 7, "LOW", ErrNotDecimal}}},
+		// Columns count characters: "a 1 2 0 é x" has x at character 11
+		// (byte 12).
+		{name: "characters before the field", in: p21 + "a 1 2 0 é x\n", want: []wantErr{{2, 9, "CAP", ErrNotDecimal}, {2, 11, "COST", ErrNotDecimal}}},
 		{name: "bad CAP", in: p21 + "a 1 2 0 1,5 1\n", want: []wantErr{{2, 9, "CAP", ErrNotDecimal}}},
 		{name: "INF is not inf", in: p21 + "a 1 2 0 INF 1\n", want: []wantErr{{2, 9, "CAP", ErrNotDecimal}}},
 		{name: "bad COST", in: p21 + "a 1 2 0 4 NaN\n", want: []wantErr{{2, 11, "COST", ErrNotDecimal}}},
@@ -363,6 +366,9 @@ func TestReadDIMACSPlanErrors(t *testing.T) {
 		{name: "source out of range", plan: "f 4 1 1\n", want: []wantErr{{1, 3, "SRC", ErrUnknownNode}}},
 		{name: "head out of range", plan: "f 1 0 1\n", want: []wantErr{{1, 5, "DST", ErrUnknownNode}}},
 		{name: "bad flow", plan: "f 1 2 x\n", want: []wantErr{{1, 7, "FLOW", ErrNotDecimal}}},
+		// "f ½ 2 x": x at character 7 (byte 8).
+		{name: "bad flow after characters", plan: "f ½ 2 x\n", want: []wantErr{{1, 3, "SRC", ErrUnknownNode}, {1, 7, "FLOW", ErrNotDecimal}}},
+		{name: "bad flow after a tab", plan: "f\t1\t2\tx\n", want: []wantErr{{1, 7, "FLOW", ErrNotDecimal}}},
 		{name: "flow digits", plan: "f 1 2 123456789012345678901\n", want: []wantErr{{1, 7, "FLOW", ErrOverflow}}},
 		{name: "f fields", plan: "f 1 2\n", want: []wantErr{{1, 1, "f", ErrSyntax}}},
 		{name: "arc line in a plan", plan: "a 1 2 0 1 1\n", want: []wantErr{{1, 1, "line", ErrSyntax}}},

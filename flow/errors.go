@@ -1,10 +1,12 @@
 package flow
 
 import (
+	"bytes"
 	"errors"
 	"fmt"
 	"sort"
 	"strings"
+	"unicode/utf8"
 )
 
 // Sentinel errors wrapped by ParseError, so callers can test with errors.Is.
@@ -21,8 +23,9 @@ var (
 )
 
 // ParseError is an input error with its position. Line and Col are 1-based;
-// Col counts bytes from the start of the line (0 when the whole line or file
-// is meant). Field names the column or the DIMACS field.
+// in a text file Col counts characters (UTF-8 code points, a tab as one)
+// from the start of the line, as an editor shows them (0 when the whole
+// line or file is meant). Field names the column or the DIMACS field.
 //
 // In a workbook (Sheet != ""), Line is the sheet's row number and Col the
 // column number (1 for column A), both 1-based; the message names the cell,
@@ -35,6 +38,9 @@ type ParseError struct {
 	Field     string
 	Text      string // the offending text, if any
 	Err       error
+
+	// chars: Col already counts characters (see textColumns).
+	chars bool
 }
 
 func (e *ParseError) Error() string {
@@ -84,12 +90,71 @@ func ColumnName(c int) string {
 	return string(buf[i:])
 }
 
+// clip shortens s to at most 40 bytes, cut at a character boundary, and
+// marks the cut with an ellipsis.
 func clip(s string) string {
 	const max = 40
-	if len(s) > max {
-		return s[:max] + "…"
+	if len(s) <= max {
+		return s
 	}
-	return s
+	i := max
+	for i > 0 && !utf8.RuneStart(s[i]) {
+		i--
+	}
+	return s[:i] + "…"
+}
+
+// textColumns turns the columns of err's ParseErrors for the text file
+// file (whose bytes, as read, are data) from byte offsets, as the parsers
+// count them, into character counts: a Col of c becomes one plus the
+// number of UTF-8 characters among the line's first c-1 bytes (an invalid
+// byte counts as one; bytes past the line's end, as after an unclosed
+// quote, count one each). Errors of other files or sheets, and those already
+// turned, are left alone; err is returned. One pass over the lines up to
+// the last error's; nothing when err has no column past the first.
+func textColumns(err error, file string, data []byte) error {
+	if err == nil {
+		return nil
+	}
+	var pes []*ParseError
+	var list ErrorList
+	var pe *ParseError
+	switch {
+	case errors.As(err, &list):
+		pes = list
+	case errors.As(err, &pe):
+		pes = []*ParseError{pe}
+	}
+	todo := make([]*ParseError, 0, len(pes))
+	for _, e := range pes {
+		if e.File == file && e.Sheet == "" && !e.chars && e.Line > 0 {
+			e.chars = true
+			if e.Col > 1 {
+				todo = append(todo, e)
+			}
+		}
+	}
+	if len(todo) == 0 {
+		return err
+	}
+	sort.SliceStable(todo, func(i, j int) bool { return todo[i].Line < todo[j].Line })
+	data = bytes.TrimPrefix(data, []byte("\xef\xbb\xbf"))
+	line, k := 1, 0
+	for k < len(todo) && len(data) > 0 {
+		text := data
+		if i := bytes.IndexByte(data, '\n'); i >= 0 {
+			text, data = data[:i], data[i+1:]
+		} else {
+			data = nil
+		}
+		for ; k < len(todo) && todo[k].Line == line; k++ {
+			e := todo[k]
+			nb := min(e.Col-1, len(text))
+			e.Col += utf8.RuneCount(text[:nb]) - nb // (a column past the line's end keeps its excess)
+		}
+		line++
+	}
+	return err
 }
 
 // ErrorList is a list of input errors sorted by file and position. Its

@@ -67,8 +67,13 @@ type gridLane struct {
 // collected and returned as an ErrorList of positioned ParseErrors. It runs
 // in O(r·c) time for r origins and c destinations, and keeps O(|V|+|E|)
 // memory beyond the file's text.
-func ReadGrid(r io.Reader, file string, opt TableOptions) (*Network, error) {
-	cr, header, err := openGrid(r, file)
+func ReadGrid(r io.Reader, file string, opt TableOptions) (_ *Network, err error) {
+	data, err := io.ReadAll(r)
+	if err != nil {
+		return nil, fmt.Errorf("flow: reading %s: %w", file, err)
+	}
+	defer func() { err = textColumns(err, file, data) }()
+	cr, header, err := openGrid(data, file)
 	if err != nil {
 		return nil, err
 	}
@@ -342,12 +347,17 @@ func gridCells(n *Network) ([]LaneID, error) {
 // network (RawPlan.Bind rescales); a negative quantity is read, and left
 // to the feasibility check. Errors are positioned; a grid of another
 // shape is reported at the first differing name. O(r·c).
-func ReadGridPlan(r io.Reader, file string, n *Network, opt TableOptions) (*RawPlan, error) {
+func ReadGridPlan(r io.Reader, file string, n *Network, opt TableOptions) (_ *RawPlan, err error) {
 	cells, err := gridCells(n)
 	if err != nil {
 		return nil, err
 	}
-	cr, header, err := openGrid(r, file)
+	data, err := io.ReadAll(r)
+	if err != nil {
+		return nil, fmt.Errorf("flow: reading %s: %w", file, err)
+	}
+	defer func() { err = textColumns(err, file, data) }()
+	cr, header, err := openGrid(data, file)
 	if err != nil {
 		return nil, err
 	}
@@ -609,11 +619,7 @@ func WriteGridAudit(w io.Writer, n *Network, x, reduced, potential []int64) erro
 
 // openGrid reads a grid's header row; the reader allows rows of any length
 // (the grid readers check the shape themselves, with positions).
-func openGrid(r io.Reader, file string) (*csv.Reader, []string, error) {
-	data, err := io.ReadAll(r)
-	if err != nil {
-		return nil, nil, fmt.Errorf("flow: reading %s: %w", file, err)
-	}
+func openGrid(data []byte, file string) (*csv.Reader, []string, error) {
 	cr, err := newCSVReader(data, file)
 	if err != nil {
 		return nil, nil, err

@@ -133,6 +133,8 @@ func TestGridErrors(t *testing.T) {
 		{"no supply column", "x,A,B,total\nO,1,2,3\ndemand,1,2,\n", 1, 7, ErrMissingColumn, `"total"`},
 		{"ragged", "x,A,supply\nO,1\ndemand,1,\n", 2, 0, ErrSyntax, "2 cells"},
 		{"rate", "x,A,supply\nO,abc,5\ndemand,1,\n", 2, 3, ErrNotDecimal, `rate "abc"`},
+		// "Øst,abc,5": abc at character 5 (byte 6).
+		{"rate after characters", "x,A,supply\nØst,abc,5\ndemand,1,\n", 2, 5, ErrNotDecimal, `rate "abc"`},
 		{"nan rate", "x,A,supply\nO,NaN,5\ndemand,1,\n", 2, 3, ErrNotFinite, "NaN"},
 		{"negative supply", "x,A,supply\nO,1,-5\ndemand,1,\n", 2, 5, ErrNegative, "supply"},
 		{"missing supply", "x,A,supply\nO,1,\ndemand,1,\n", 2, 5, ErrNotDecimal, "empty"},
