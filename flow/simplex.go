@@ -304,9 +304,11 @@ func (s *simplex) costOf(a int32) int64 {
 // and block search for the entering arc (blocks of about sqrt(|E|) arcs).
 // A cold start first minimises with artificial arcs of cost
 // M = |V|·maxRate + 1 (or, when sums of that size could overflow, with
-// cost 1 on the artificial arcs and 0 on the lanes), then finishes with
-// artificial arcs of cost 0 that keep zero flow, so no potential carries
-// M. Flows and potentials are exact int64; a sum that could overflow
+// cost 1 on the artificial arcs and 0 on the lanes); an artificial arc
+// that leaves the tree is not priced again (when artificial flow remains at
+// the end, a phase one with every artificial arc free settles the
+// shortfall). It then finishes with artificial arcs of cost 0 that keep
+// zero flow, so no potential carries M. Flows and potentials are exact int64; a sum that could overflow
 // returns an error wrapping ErrOverflow, never a wrong answer. The cost
 // is kept per pivot (flow moved times the entering lane's reduced cost)
 // in 128 bits, not recomputed at the end.
@@ -486,6 +488,10 @@ func Solve(n *Network, opt SolveOptions) (*Solution, error) {
 		} else {
 			s.setCosts(false, 1)
 		}
+		// An artificial arc that leaves the tree does not come back (it is
+		// fixed at zero flow): fewer pivots. When artificial flow remains,
+		// a phase one with all of them free settles the shortfall.
+		s.artFixed = true
 		s.computePotentials()
 		unb, err := s.run()
 		if err != nil {
@@ -494,7 +500,7 @@ func Solve(n *Network, opt SolveOptions) (*Solution, error) {
 		if unb {
 			// Unbounded only if feasible: finish a phase one from here.
 			cyc := s.cycle
-			if err := s.phaseOne(); err != nil {
+			if err := s.freeArtificial().phaseOne(); err != nil {
 				return nil, err
 			}
 			if s.artFlow() > 0 {
@@ -503,6 +509,9 @@ func Solve(n *Network, opt SolveOptions) (*Solution, error) {
 			return s.unbounded(sol, cyc), nil
 		}
 		if s.artFlow() > 0 {
+			if err := s.freeArtificial().phaseOne(); err != nil {
+				return nil, err
+			}
 			return s.infeasible(sol)
 		}
 		s.enterPhaseTwo()
@@ -804,6 +813,17 @@ func (s *simplex) phaseOne() error {
 	_, err := s.run()
 	s.checked = saved
 	return err
+}
+
+// freeArtificial lets the artificial arcs fixed outside the tree enter
+// again (at zero flow) and returns s.
+func (s *simplex) freeArtificial() *simplex {
+	for v := 0; v < s.nNodes; v++ {
+		if a := int32(s.artStart + v); s.pred[v] != a && s.state[a] == stateTree {
+			s.state[a] = stateLower
+		}
+	}
+	return s
 }
 
 // artFlow returns the total flow on the artificial arcs (each is at most
