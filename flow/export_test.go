@@ -9,3 +9,14 @@ func Sifted(sol *Solution) bool { return sol.sifted }
 func SolveSifting(n *Network, start []int64) (*Solution, error) {
 	return Solve(n, SolveOptions{Start: start, siftAlways: true})
 }
+
+// Swept reports whether Solve's warm start searched by sweeps (see
+// sweepMinLanes).
+func Swept(sol *Solution) bool { return sol.swept }
+
+// SolveSweeping is Solve from start with the warm start's search by sweeps
+// whenever the plan does not sift and the arithmetic allows, whatever the
+// network's size.
+func SolveSweeping(n *Network, start []int64) (*Solution, error) {
+	return Solve(n, SolveOptions{Start: start, sweepAlways: true})
+}

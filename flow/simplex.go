@@ -79,6 +79,9 @@ type SolveOptions struct {
 	// siftAlways sifts whenever the plan allows, whatever the network's
 	// size (tests).
 	siftAlways bool
+	// sweepAlways searches by sweeps whenever a warm start does not sift
+	// and the arithmetic allows, whatever the network's size (tests).
+	sweepAlways bool
 }
 
 // Solution is the result of Solve.
@@ -129,6 +132,7 @@ type Solution struct {
 
 	sim    *simplex // with SolveOptions.keepSim
 	sifted bool     // the warm start sifted (tests)
+	swept  bool     // the warm start searched by sweeps (tests)
 }
 
 // Arc states. An arc that is not in the tree is at its lower bound
@@ -231,7 +235,9 @@ type simplex struct {
 
 	cycle []CycleStep
 
-	keep bool // SolveOptions.Keep
+	keep        bool // SolveOptions.Keep
+	sweepAlways bool // SolveOptions.sweepAlways
+	swept       bool // the warm start searched by sweeps
 }
 
 // ends returns the tail and head of arc a.
@@ -416,6 +422,7 @@ func Solve(n *Network, opt SolveOptions) (*Solution, error) {
 	}
 	s.progress, s.placing = opt.Progress, opt.Placing
 	s.keep = opt.Keep
+	s.sweepAlways = opt.sweepAlways
 	sol := &Solution{}
 
 	warm, proved := false, false
@@ -438,6 +445,7 @@ func Solve(n *Network, opt SolveOptions) (*Solution, error) {
 		}
 	}
 	sol.WarmStarted = warm
+	sol.swept = warm && s.swept
 	if warm {
 		if err := s.computePotentialsChecked(); err != nil {
 			return nil, err
@@ -1658,7 +1666,7 @@ func (s *simplex) warmStart(x []int64) (bool, []int32, bool, bool, error) {
 	// leaves from (a part without one can never be raised; the later
 	// pivots may make this out of date, which costs sweeps, not
 	// correctness: a part hung from R can still be raised).
-	dense := s.dense()
+	dense := s.dense() || s.sweepAlways
 	var lead []bool
 	if dense {
 		lead = make([]bool, nn)
@@ -1965,6 +1973,7 @@ func (s *simplex) warmStart(x []int64) (bool, []int32, bool, bool, error) {
 		// A dense network: searches by sweeps over the lanes (no lists;
 		// see sweepTree), each started from the tree the last one left.
 		var buf sweepBuf
+		s.swept = true
 		viols, tries := 0, 0
 		hasTree := false  // the current tree holds the forest, potentials current
 		searched := false // and was built by a search that ran to the end

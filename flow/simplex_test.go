@@ -1319,6 +1319,109 @@ func TestSolveSiftOracle(t *testing.T) {
 	}
 }
 
+// TestSolveSweepOracle forces the warm start's search by sweeps (which
+// Solve keeps for dense networks of sweepMinLanes lanes and more) on small
+// random networks, with excess supply, lane minimums, parallel lanes and
+// negative rates, and checks each warm solve against gonum's LP simplex
+// (internal/oracle) and the cold solve: the same status and cost, and a
+// certificate the independent checker accepts. Starts: a feasible plan
+// from randnet, the cold optimum and a perturbation of it.
+func TestSolveSweepOracle(t *testing.T) {
+	rng := rand.New(rand.NewPCG(20261202, 2))
+	counts := map[flow.Status]int{}
+	solves, swept := 0, 0
+	for i := 0; i < 600; i++ {
+		o := randnet.RandomOptions(rng)
+		o.Infeasible = false
+		if i%5 == 4 {
+			o.Kind, o.NegativeRates, o.CapFrac = randnet.General, true, 0.3
+		}
+		n := randnet.Network(rng, o)
+		name := fmt.Sprintf("case %d (%d nodes, %d lanes)", i, len(n.Nodes), len(n.Tail))
+		res, sol := oracleAndCold(t, name, n)
+		if sol.Status.String() != res.Status.String() {
+			t.Fatalf("%s: cold status %v, oracle %v", name, sol.Status, res.Status)
+		}
+		counts[sol.Status]++
+		var starts [][]int64
+		if x, ok := randnet.FeasiblePlan(rng, n); ok {
+			starts = append(starts, x)
+		}
+		if sol.Status == flow.Optimal {
+			starts = append(starts, sol.Flow, randnet.PerturbedPlan(rng, n, sol.Flow))
+		}
+		for j, y := range starts {
+			if certcheck.Feasible(n, y) != nil {
+				continue // (a perturbation may leave the bounds)
+			}
+			w, err := flow.SolveSweeping(n, y)
+			if err != nil {
+				t.Fatalf("%s, start %d: %v", name, j, err)
+			}
+			solves++
+			if flow.Swept(w) {
+				swept++
+			}
+			checkWarm(t, fmt.Sprintf("%s, start %d", name, j), n, w, sol, res)
+		}
+	}
+	t.Logf("statuses %v; %d of %d warm solves searched by sweeps", counts, swept, solves)
+	if counts[flow.Optimal] < 300 || counts[flow.Unbounded] < 10 {
+		t.Errorf("statuses %v: the cases no longer cover optimal and unbounded", counts)
+	}
+	if swept < solves*3/4 {
+		t.Errorf("only %d of %d warm solves searched by sweeps", swept, solves)
+	}
+}
+
+// TestSolveSweepRepair forces the search by sweeps on small complete
+// transportation networks with excess supply (half of them with each
+// lane's capacity at its origin's supply or its destination's demand,
+// whichever is less), from plans moved around 10 cycles from the optimum
+// (netgen.Perturb). Their wide spread of rates makes the sweeps after the
+// first full one read only the lanes with a small reduced cost, and parts
+// then rise past that bound, which must bring back a full sweep: each
+// repair must reach the cold optimum with a certificate the independent
+// checker accepts.
+func TestSolveSweepRepair(t *testing.T) {
+	swept := 0
+	for seed := uint64(1); seed <= 20; seed++ {
+		for _, shape := range [][2]int{{20, 30}, {40, 40}, {10, 80}} {
+			n := netgen.Transport(seed, shape[0], shape[1], 0, 1000)
+			if seed%2 == 0 {
+				n = capToMin(n)
+			}
+			n = withExcess(n, 50)
+			sol, err := flow.Solve(n, flow.SolveOptions{})
+			if err != nil {
+				t.Fatal(err)
+			}
+			checkOptimal(t, n, sol)
+			for ps := uint64(0); ps < 3; ps++ {
+				name := fmt.Sprintf("seed %d, %dx%d, perturbation %d", seed, shape[0], shape[1], ps)
+				y := netgen.Perturb(seed*10+ps, n, sol.Flow, sol.InTree, 10)
+				w, err := flow.SolveSweeping(n, y)
+				if err != nil {
+					t.Fatalf("%s: %v", name, err)
+				}
+				if !w.WarmStarted {
+					t.Fatalf("%s: not warm started", name)
+				}
+				if flow.Swept(w) {
+					swept++
+				}
+				checkOptimal(t, n, w)
+				if w.Cost.Cmp(sol.Cost) != 0 {
+					t.Fatalf("%s: cost %s, cold %s", name, w.Cost.Format(0), sol.Cost.Format(0))
+				}
+			}
+		}
+	}
+	if swept < 150 {
+		t.Errorf("only %d of 180 repairs searched by sweeps", swept)
+	}
+}
+
 // TestSolveSiftDense repairs dense transportation plans (netgen, above the
 // size where Solve sifts, supply equal to demand) moved around 10 cycles
 // from the optimum (netgen.Perturb, as in the benchmarks): the warm start
