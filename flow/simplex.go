@@ -948,18 +948,33 @@ func (s *simplex) run() (bool, error) {
 // search, or -1: the arcs are scanned cyclically from where the last
 // search stopped, in blocks of s.block arcs; the most violating arc of the
 // first block holding one is chosen. Lanes and the other arcs are scanned
-// as two runs of one cyclic order.
+// as runs of one cyclic order; the artificial arcs are left out while they
+// are fixed outside the tree (artFixed: none of them can enter).
 func (s *simplex) findEntering() (int32, int64) {
 	na, m := s.na, s.m
+	skipLo, skipHi := na, na // arcs not scanned
+	if s.artFixed {
+		skipLo, skipHi = s.artStart, s.artEnd
+	}
+	total := na - (skipHi - skipLo)
 	best, bestV := int32(-1), int64(0)
 	cnt := s.block
 	e := s.next
-	for done := 0; done < na; {
+	if e >= skipLo && e < skipHi {
+		e = skipHi
+	}
+	if e == na {
+		e = 0
+	}
+	for done := 0; done < total; {
 		end := na
-		if e < m {
+		switch {
+		case e < m:
 			end = m
+		case e < skipLo:
+			end = skipLo
 		}
-		end = min(end, e+na-done)
+		end = min(end, e+total-done)
 		stop := -1
 		if e < m {
 			best, bestV, cnt, stop = scanArcs(s.state[:m], s.cost[:m], s.tail[:m], s.head[:m], s.pot, e, end, 0, best, bestV, cnt, s.block)
@@ -967,6 +982,9 @@ func (s *simplex) findEntering() (int32, int64) {
 			best, bestV, cnt, stop = scanArcs(s.state[m:], s.xcost, s.xsrc, s.xtgt, s.pot, e-m, end-m, m, best, bestV, cnt, s.block)
 		}
 		if stop >= 0 {
+			if stop == skipLo {
+				stop = skipHi
+			}
 			if stop == na {
 				stop = 0
 			}
@@ -975,6 +993,9 @@ func (s *simplex) findEntering() (int32, int64) {
 		}
 		done += end - e
 		e = end
+		if e == skipLo {
+			e = skipHi
+		}
 		if e == na {
 			e = 0
 		}
