@@ -112,7 +112,6 @@ func (s *simplex) sift(x []int64) (ok, proved bool, err error) {
 	nc := len(lanes)
 	var extra []Candidate // lanes added to the kept basis: arcs t.na.. of Add's state
 	pivots, cost := sol.Pivots, sol.Cost
-	tree := make([]int32, 0, s.nNodes)
 	var viol []int32
 	for round := 1; ; round++ {
 		// The restricted optimum (state t: its lanes, then its
@@ -137,12 +136,7 @@ func (s *simplex) sift(x []int64) (ok, proved bool, err error) {
 				flow[a], state[a] = 0, stateLower // (Add kept the basis)
 			}
 		}
-		tree = tree[:0]
-		for v := 0; v < s.nNodes; v++ {
-			tree = append(tree, arc(t.pred[v]))
-		}
-		s.setTree(tree)
-		s.computePotentials()
+		s.copyTree(t, arc)
 		s.obj, s.objOK = cost, true
 		s.pivots = pivots
 
@@ -258,4 +252,33 @@ func siftPrice(state []int8, rate []int64, tail, head []NodeID, pot []int64, vio
 		}
 	}
 	return viol
+}
+
+// copyTree makes the tree of t, a solver over the same nodes (a restricted
+// network of s with the same root), the tree of s, with t's potentials
+// (the arc costs agree): arc maps t's arcs to s's. The flows and states of
+// the lanes are set by the caller. O(|V|).
+func (s *simplex) copyTree(t *simplex, arc func(int32) int32) {
+	r := s.root
+	copy(s.parent, t.parent)
+	copy(s.thread, t.thread)
+	copy(s.rthread, t.rthread)
+	copy(s.size, t.size)
+	copy(s.last, t.last)
+	copy(s.pot, t.pot)
+	s.drift = t.drift
+	for v := int32(0); v < r; v++ {
+		a := arc(t.pred[v])
+		s.pred[v] = a
+		src, _ := s.ends(a)
+		s.up[v] = src == v
+		s.state[a] = stateTree
+	}
+	s.parent[r], s.pred[r] = -1, -1
+	s.treeSet = true
+	s.artFixed = true
+	s.cost = s.rate
+	for a := s.artStart; a < s.artEnd; a++ {
+		s.xcost[a-s.m] = 0
+	}
 }
