@@ -274,11 +274,5 @@ func (s *simplex) copyTree(t *simplex, arc func(int32) int32) {
 		s.up[v] = src == v
 		s.state[a] = stateTree
 	}
-	s.parent[r], s.pred[r] = -1, -1
-	s.treeSet = true
-	s.artFixed = true
-	s.cost = s.rate
-	for a := s.artStart; a < s.artEnd; a++ {
-		s.xcost[a-s.m] = 0
-	}
+	s.treeDone()
 }

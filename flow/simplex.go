@@ -3105,6 +3105,14 @@ func (s *simplex) setTree(tree []int32) {
 	for i, v := range order {
 		s.last[v] = order[i+int(s.size[v])-1]
 	}
+	s.treeDone()
+}
+
+// treeDone finishes setting a tree for phase two: R has no parent, the
+// artificial arcs cost 0 and those outside the tree stay out, and the
+// lanes cost their rates.
+func (s *simplex) treeDone() {
+	r := s.root
 	s.parent[r], s.pred[r] = -1, -1
 	s.treeSet = true
 	s.artFixed = true

@@ -1272,51 +1272,9 @@ func TestSolveLargeRates(t *testing.T) {
 // have sifted (the others fell back to the other warm start: an
 // unbounded restricted network).
 func TestSolveSiftOracle(t *testing.T) {
-	rng := rand.New(rand.NewPCG(20261202, 1))
-	counts := map[flow.Status]int{}
-	solves, sifted := 0, 0
-	for i := 0; i < 600; i++ {
-		o := randnet.RandomOptions(rng)
+	warmOracle(t, 1, "sifted", flow.SolveSifting, flow.Sifted, func(o *randnet.Options) {
 		o.LowerFrac, o.ExcessSupply, o.Infeasible = 0, false, false
-		if i%5 == 4 {
-			o.Kind, o.NegativeRates, o.CapFrac = randnet.General, true, 0.3
-		}
-		n := randnet.Network(rng, o)
-		name := fmt.Sprintf("case %d (%d nodes, %d lanes)", i, len(n.Nodes), len(n.Tail))
-		res, sol := oracleAndCold(t, name, n)
-		if sol.Status.String() != res.Status.String() {
-			t.Fatalf("%s: cold status %v, oracle %v", name, sol.Status, res.Status)
-		}
-		counts[sol.Status]++
-		var starts [][]int64
-		if x, ok := randnet.FeasiblePlan(rng, n); ok {
-			starts = append(starts, x)
-		}
-		if sol.Status == flow.Optimal {
-			starts = append(starts, sol.Flow, randnet.PerturbedPlan(rng, n, sol.Flow))
-		}
-		for j, y := range starts {
-			if certcheck.Feasible(n, y) != nil {
-				continue // (a perturbation may leave the bounds)
-			}
-			w, err := flow.SolveSifting(n, y)
-			if err != nil {
-				t.Fatalf("%s, start %d: %v", name, j, err)
-			}
-			solves++
-			if flow.Sifted(w) {
-				sifted++
-			}
-			checkWarm(t, fmt.Sprintf("%s, start %d", name, j), n, w, sol, res)
-		}
-	}
-	t.Logf("statuses %v; %d of %d warm solves sifted", counts, sifted, solves)
-	if counts[flow.Optimal] < 300 || counts[flow.Unbounded] < 10 {
-		t.Errorf("statuses %v: the cases no longer cover optimal and unbounded", counts)
-	}
-	if sifted < solves*3/4 {
-		t.Errorf("only %d of %d warm solves sifted", sifted, solves)
-	}
+	})
 }
 
 // TestSolveSweepOracle forces the warm start's search by sweeps (which
@@ -1327,12 +1285,26 @@ func TestSolveSiftOracle(t *testing.T) {
 // certificate the independent checker accepts. Starts: a feasible plan
 // from randnet, the cold optimum and a perturbation of it.
 func TestSolveSweepOracle(t *testing.T) {
-	rng := rand.New(rand.NewPCG(20261202, 2))
+	warmOracle(t, 2, "searched by sweeps", flow.SolveSweeping, flow.Swept, func(o *randnet.Options) {
+		o.Infeasible = false
+	})
+}
+
+// warmOracle runs the warm solve solve on 600 seeded random networks
+// (randnet options adjusted by opts; every fifth a general network with
+// negative rates) from a feasible plan, the cold optimum and a perturbation
+// of it, and checks each against gonum's LP oracle and the cold solve
+// (checkWarm). The cases must cover optimal and unbounded problems, and
+// three quarters of the warm solves must have taken the path under test
+// (took).
+func warmOracle(t *testing.T, stream uint64, path string, solve func(*flow.Network, []int64) (*flow.Solution, error), took func(*flow.Solution) bool, opts func(*randnet.Options)) {
+	t.Helper()
+	rng := rand.New(rand.NewPCG(20261202, stream))
 	counts := map[flow.Status]int{}
-	solves, swept := 0, 0
+	solves, taken := 0, 0
 	for i := 0; i < 600; i++ {
 		o := randnet.RandomOptions(rng)
-		o.Infeasible = false
+		opts(&o)
 		if i%5 == 4 {
 			o.Kind, o.NegativeRates, o.CapFrac = randnet.General, true, 0.3
 		}
@@ -1354,23 +1326,23 @@ func TestSolveSweepOracle(t *testing.T) {
 			if certcheck.Feasible(n, y) != nil {
 				continue // (a perturbation may leave the bounds)
 			}
-			w, err := flow.SolveSweeping(n, y)
+			w, err := solve(n, y)
 			if err != nil {
 				t.Fatalf("%s, start %d: %v", name, j, err)
 			}
 			solves++
-			if flow.Swept(w) {
-				swept++
+			if took(w) {
+				taken++
 			}
 			checkWarm(t, fmt.Sprintf("%s, start %d", name, j), n, w, sol, res)
 		}
 	}
-	t.Logf("statuses %v; %d of %d warm solves searched by sweeps", counts, swept, solves)
+	t.Logf("statuses %v; %d of %d warm solves %s", counts, taken, solves, path)
 	if counts[flow.Optimal] < 300 || counts[flow.Unbounded] < 10 {
 		t.Errorf("statuses %v: the cases no longer cover optimal and unbounded", counts)
 	}
-	if swept < solves*3/4 {
-		t.Errorf("only %d of %d warm solves searched by sweeps", swept, solves)
+	if taken < solves*3/4 {
+		t.Errorf("only %d of %d warm solves %s", taken, solves, path)
 	}
 }
 
