@@ -314,8 +314,9 @@ func (s *simplex) costOf(a int32) int64 {
 // that leaves the tree is not priced again (when artificial flow remains at
 // the end, a phase one with every artificial arc free settles the
 // shortfall). It then finishes with artificial arcs of cost 0 that keep
-// zero flow, so no potential carries M. Flows and potentials are exact int64; a sum that could overflow
-// returns an error wrapping ErrOverflow, never a wrong answer. The cost
+// zero flow, so no potential carries M. Flows and potentials are exact
+// int64; a sum that could overflow returns an error wrapping ErrOverflow,
+// never a wrong answer. The cost
 // is kept per pivot (flow moved times the entering lane's reduced cost)
 // in 128 bits, not recomputed at the end.
 //
