@@ -321,11 +321,7 @@ func TestSolveReference(t *testing.T) {
 	for _, c := range cases {
 		t.Run(c.file, func(t *testing.T) {
 			n := readMin(t, filepath.Join(dir, c.file+".min"))
-			sol, err := flow.Solve(n, flow.SolveOptions{})
-			if err != nil {
-				t.Fatal(err)
-			}
-			checkOptimal(t, n, sol)
+			sol := solveOptimal(t, n)
 			if sol.Cost.Cmp(wideOf(c.cost)) != 0 {
 				t.Fatalf("cost %s, want %d", sol.Cost.Format(0), c.cost)
 			}
@@ -370,11 +366,7 @@ func TestSolvePublishedDuals(t *testing.T) {
 	// New-York 225, Chicago 153, Topeka 126 with plant values 0; reduced
 	// costs Seattle->Topeka 36, San-Diego->Chicago 9.
 	n := readMin(t, filepath.Join(dir, "dantzig_trnsport.min"))
-	sol, err := flow.Solve(n, flow.SolveOptions{})
-	if err != nil {
-		t.Fatal(err)
-	}
-	checkOptimal(t, n, sol)
+	sol := solveOptimal(t, n)
 	if got, want := sol.Potential[:5], []int64{0, 0, 225, 153, 126}; !reflect.DeepEqual(got, want) {
 		t.Errorf("dantzig potentials %v, want %v", got, want)
 	}
@@ -391,11 +383,7 @@ func TestSolvePublishedDuals(t *testing.T) {
 	// with p = -pi: 2->4 3, 3->5 3, 5->7 -1, 5->2 1, 6->8 3, 6->7 -3,
 	// others 0.
 	n = readMin(t, filepath.Join(dir, "glpk_sample.min"))
-	sol, err = flow.Solve(n, flow.SolveOptions{})
-	if err != nil {
-		t.Fatal(err)
-	}
-	checkOptimal(t, n, sol)
+	sol = solveOptimal(t, n)
 	wantRC := map[[2]int]int64{{2, 4}: 3, {3, 5}: 3, {5, 7}: -1, {5, 2}: 1, {6, 8}: 3, {6, 7}: -3}
 	for a := range n.Tail {
 		k := [2]int{int(n.Tail[a]) + 1, int(n.Head[a]) + 1}
@@ -655,11 +643,7 @@ func degenerateAssignment(k int) *flow.Network {
 func TestSolveDegenerateAssignment(t *testing.T) {
 	for _, k := range []int{5, 20, 60} {
 		n := degenerateAssignment(k)
-		sol, err := flow.Solve(n, flow.SolveOptions{})
-		if err != nil {
-			t.Fatal(err)
-		}
-		checkOptimal(t, n, sol)
+		sol := solveOptimal(t, n)
 		// Row 0 and column 0 have rate 0 everywhere; every other row i
 		// has a zero cell at j = 0 or where i*j ≡ 0 (mod 3). The optimum is
 		// 0 when a zero-rate perfect matching exists; rows i ≢ 0 (mod 3)
@@ -797,11 +781,7 @@ func TestSolveRepair(t *testing.T) {
 	for _, c := range cases {
 		t.Run(c.name, func(t *testing.T) {
 			n := c.n
-			sol, err := flow.Solve(n, flow.SolveOptions{})
-			if err != nil {
-				t.Fatal(err)
-			}
-			checkOptimal(t, n, sol)
+			sol := solveOptimal(t, n)
 			same, err := flow.Solve(n, flow.SolveOptions{Start: sol.Flow})
 			if err != nil || !same.WarmStarted {
 				t.Fatalf("from the optimum: %v, warm %v", err, same.WarmStarted)
@@ -1015,6 +995,18 @@ func oracleAndCold(t *testing.T, name string, n *flow.Network) (oracle.Result, *
 		t.Fatalf("%s: %v", name, err)
 	}
 	return res, sol
+}
+
+// solveOptimal solves n from scratch and checks that the result is optimal
+// with a certificate the independent checker accepts (checkOptimal).
+func solveOptimal(t *testing.T, n *flow.Network) *flow.Solution {
+	t.Helper()
+	sol, err := flow.Solve(n, flow.SolveOptions{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	checkOptimal(t, n, sol)
+	return sol
 }
 
 // checkWarm checks a warm solve w of n against the cold solve sol and the
@@ -1364,11 +1356,7 @@ func TestSolveSweepRepair(t *testing.T) {
 				n = capToMin(n)
 			}
 			n = withExcess(n, 50)
-			sol, err := flow.Solve(n, flow.SolveOptions{})
-			if err != nil {
-				t.Fatal(err)
-			}
-			checkOptimal(t, n, sol)
+			sol := solveOptimal(t, n)
 			for ps := uint64(0); ps < 3; ps++ {
 				name := fmt.Sprintf("seed %d, %dx%d, perturbation %d", seed, shape[0], shape[1], ps)
 				y := netgen.Perturb(seed*10+ps, n, sol.Flow, sol.InTree, 10)
@@ -1409,11 +1397,7 @@ func TestSolveSiftDense(t *testing.T) {
 	} {
 		t.Run(c.name, func(t *testing.T) {
 			n := c.n
-			sol, err := flow.Solve(n, flow.SolveOptions{})
-			if err != nil {
-				t.Fatal(err)
-			}
-			checkOptimal(t, n, sol)
+			sol := solveOptimal(t, n)
 			starts := [][]int64{sol.Flow}
 			for seed := uint64(51); seed < 54; seed++ {
 				starts = append(starts, netgen.Perturb(seed, n, sol.Flow, sol.InTree, 10))
