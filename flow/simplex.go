@@ -331,7 +331,9 @@ func (s *simplex) costOf(a int32) int64 {
 // those inside a part of the forest whose reduced cost, from the forest
 // alone, has the wrong sign: each closes a cycle of negative cost with
 // the forest, and they are pivoted in the same way, most violating first.
-// The parts are then joined into a strongly feasible tree by a
+// That changes the forest; while one pass then finds at least
+// minInsideViol such lanes, they are cancelled again (up to
+// maxInsideRounds rounds). The parts are then joined into a strongly feasible tree by a
 // label-correcting shortest-path search (first-in first-out, with subtree
 // disassembly) that gives every part the highest potentials its lanes at
 // a bound allow, hanging it below a neighbour through such a lane with
@@ -2053,8 +2055,18 @@ func (s *simplex) warmStart(x []int64) (bool, []int32, bool, bool, error) {
 			slices.Sort(changed)
 			changed = slices.Compact(changed)
 			lists[1] = s.extraLists(changed)
+			if round < maxInsideRounds {
+				// Cancelling changes the forest, and with it the lanes
+				// inside parts: more of them may now have the wrong
+				// sign. Many such lanes make the search refuse many
+				// more (the parts they join rise against each other),
+				// so they are cancelled first while they are many.
+				if viol = s.insideViolations(comp, rho); len(viol) < minInsideViol {
+					viol = nil
+				}
+			}
 		}
-		if round < maxRounds && len(viol) > 0 {
+		if (round < maxRounds || round < maxInsideRounds) && len(viol) > 0 {
 			// Lanes at a bound inside a part with the wrong sign of
 			// reduced cost close cycles of negative cost with the
 			// forest: cancel them in the forest (each part hung from R)
@@ -2084,6 +2096,20 @@ func (s *simplex) warmStart(x []int64) (bool, []int32, bool, bool, error) {
 // maxPicks bounds the rounds of picking the most violating arc when a
 // warm start cancels cycles of negative cost.
 const maxPicks = 32
+
+// maxInsideRounds bounds the rounds of a warm start that cancel lanes
+// inside parts with the wrong sign of reduced cost, and minInsideViol is
+// the number of such lanes from which a round after the first one runs.
+// A round costs a pass over the lanes and a rebuild of the forest, much
+// less than a search; when the perturbation of a plan leaves many such
+// lanes after the first round, the search refuses hundreds of lanes and
+// block search then needs thousands of pivots (netgen_a1e5, seed 11:
+// 148 lanes after the first round, 3,149 pivots; with the extra rounds
+// 163 pivots; see BENCHMARKS.md, fourth session).
+const (
+	maxInsideRounds = 8
+	minInsideViol   = 16
+)
 
 // maxRounds bounds the rounds of a warm start that cancel cycles of
 // negative cost before the first tree is kept. One round: a second one
@@ -2284,6 +2310,29 @@ func (s *simplex) boundLists(cnt, comp []int32, rho []int64) (pl partLists, viol
 		lend[u]++
 	}
 	return partLists{list, lstart, lend}, viol
+}
+
+// insideViolations returns the lanes and hold arcs at a bound inside a
+// part (comp) whose reduced cost from the parts' potentials rho has the
+// wrong sign: each closes a cycle of negative cost with the forest. One
+// pass over the arcs (empty in checked arithmetic, as in boundLists).
+func (s *simplex) insideViolations(comp []int32, rho []int64) (viol []int32) {
+	if s.checked {
+		return nil
+	}
+	m := s.m
+	tail, head, rate, state := s.tail[:m], s.head[:m], s.rate[:m], s.state[:m]
+	for a, st := range state {
+		if t, h := tail[a], head[a]; st != stateTree && comp[t] == comp[h] && int64(st)*(rate[a]+rho[t]-rho[h]) < 0 {
+			viol = append(viol, int32(a))
+		}
+	}
+	for a := s.holdStart; a < s.artStart; a++ {
+		if t, h := s.ends(int32(a)); s.state[a] != stateTree && comp[t] == comp[h] && int64(s.state[a])*(rho[t]-rho[h]) < 0 {
+			viol = append(viol, int32(a))
+		}
+	}
+	return viol
 }
 
 // partMembers lists the nodes of each part (comp[v] is v's part, numbered
