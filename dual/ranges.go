@@ -2,6 +2,7 @@ package dual
 
 import (
 	"fmt"
+	"math"
 	"sort"
 
 	"lanecert/flow"
@@ -144,6 +145,9 @@ type ranger struct {
 	want     []int32 // search number for which a piece is a target
 	stamp    int32
 	searches int
+	// sumsFit: no route of at most k+2 edges (r.w) can overflow, so the
+	// side searches add without checks.
+	sumsFit bool
 }
 
 // pieceGraph is the graph of pieces with parallel edges merged: per piece u
@@ -292,6 +296,11 @@ func (r *ranger) buildEdges() error {
 	}
 	r.fwdG = r.contract(r.start, nil, r.pTo)
 	r.revG = r.contract(r.rstart, r.redges, r.pFrom)
+	var maxW int64
+	for _, w := range r.w {
+		maxW = max(maxW, w)
+	}
+	r.sumsFit = maxW <= math.MaxInt64/int64(k+3)
 	r.subtrees()
 	r.cover()
 	r.reachability()
@@ -1504,9 +1513,12 @@ func (r *ranger) sideSearch(p int32, out, in *sideTable, target int32, bound int
 			if v == p || r.settled[v] {
 				continue
 			}
-			nd, err := flow.AddChecked(it.d, r.fwdG.w[c])
-			if err != nil {
-				return 0, -1, fmt.Errorf("dual: route cost %w", err)
+			nd := it.d + r.fwdG.w[c]
+			if !r.sumsFit {
+				var err error
+				if nd, err = flow.AddChecked(it.d, r.fwdG.w[c]); err != nil {
+					return 0, -1, fmt.Errorf("dual: route cost %w", err)
+				}
 			}
 			if r.dist[v] == unreached {
 				r.touched = append(r.touched, v)
