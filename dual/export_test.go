@@ -26,3 +26,10 @@ func SingleBoundsForTest(n *flow.Network, cands []flow.Candidate, cut *flow.Cut)
 	}
 	return bounds, has, true, nil
 }
+
+// RangesCheckedForTest is Ranges with every route sum of the side searches
+// checked for overflow (the path taken when rates are near the int64
+// limit).
+func RangesCheckedForTest(n *flow.Network, y []int64, p []int64) (*Sensitivity, error) {
+	return ranges(n, y, p, true)
+}

@@ -70,6 +70,12 @@ type Sensitivity struct {
 // the best route. Each is O((k + k') log k) at worst and usually stopped
 // early. Memory O(|V| + |E|) besides the side tables (at most 2^20 cells).
 func Ranges(n *flow.Network, y []int64, p []int64) (*Sensitivity, error) {
+	return ranges(n, y, p, false)
+}
+
+// ranges is Ranges; with checkSums the side searches check every sum for
+// overflow even when no route can overflow (tests compare the two).
+func ranges(n *flow.Network, y []int64, p []int64, checkSums bool) (*Sensitivity, error) {
 	f, err := flow.CheckPlan(n, y)
 	if err != nil {
 		return nil, err
@@ -85,6 +91,7 @@ func Ranges(n *flow.Network, y []int64, p []int64) (*Sensitivity, error) {
 	if err := r.buildEdges(); err != nil {
 		return nil, err
 	}
+	r.sumsFit = r.sumsFit && !checkSums
 	s := &Sensitivity{Lanes: make([]LaneRange, g.m), Nodes: make([]NodePrice, g.nn)}
 	if err := r.lanes(s); err != nil {
 		return nil, err

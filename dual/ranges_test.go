@@ -3,6 +3,7 @@ package dual_test
 import (
 	"fmt"
 	"math/rand/v2"
+	"reflect"
 	"testing"
 
 	"lanecert/dual"
@@ -364,6 +365,12 @@ func TestRangesManyPieces(t *testing.T) {
 			t.Fatalf("case %d: %v", i, err)
 		}
 		checkRoutes(t, i, n, opt.Flow, a.Potential, s, nil)
+		// The side searches add without overflow checks when no route
+		// can overflow: the checked sums must give the same answer.
+		c, err := dual.RangesCheckedForTest(n, opt.Flow, a.Potential)
+		if err != nil || !reflect.DeepEqual(s, c) {
+			t.Fatalf("case %d: ranges with checked sums differ (%v)", i, err)
+		}
 	}
 	if manyPieces < 20 {
 		t.Errorf("only %d optima with 10 or more pieces: the test no longer covers them", manyPieces)
