@@ -206,6 +206,9 @@ type simplex struct {
 	up                                        []bool
 	pot                                       []int64
 
+	// scratch for setTree and setForestTree
+	orderBuf, stackBuf, startBuf, adjBuf []int32
+
 	// scratch for tree updates (indexed by position on the stem)
 	stemNode, stemPred, stemSize, stemRthr, stemAfter, stemLast []int32
 	stemUp                                                      []bool
@@ -326,29 +329,32 @@ func (s *simplex) costOf(a int32) int64 {
 // a bound per node. The free lanes, in lane order while they close no
 // cycle, form a forest; a free lane closing a cycle is pivoted in at once
 // (in a tree of the forest's parts hung from R), which cancels the cycle.
-// A second pass lists the lanes at a bound by the node their spare
-// direction leads to (zero flow: the head; full: the tail) and finds
-// those inside a part of the forest whose reduced cost, from the forest
-// alone, has the wrong sign: each closes a cycle of negative cost with
-// the forest, and they are pivoted in the same way, most violating first.
-// That changes the forest; while one pass then finds at least
-// minInsideViol such lanes, they are cancelled again (up to
-// maxInsideRounds rounds). The parts are then joined into a strongly feasible tree by a
-// label-correcting shortest-path search (first-in first-out, with subtree
-// disassembly) that gives every part the highest potentials its lanes at
-// a bound allow, hanging it below a neighbour through such a lane with
-// reduced cost 0 in the direction in which it can still move; the search
-// starts from H under excess supply, else from the largest part, and
-// parts it cannot reach hang from R by artificial arcs of zero flow (never
-// used again). From an optimal plan this gives an optimal tree. When no
-// lane inside a part had to be cancelled, lanes the search finds closing
-// cycles of negative cost (it refuses them) are pivoted into that tree and
-// the search is run once more from the new plan (one round of cancelling
-// in all, maxRounds); then block search finishes. A plan that is optimal
-// except for a few cycles thus needs two or three passes over the lanes,
-// one or two searches over the lanes at a bound, a few pivots per cycle
-// and the final pricing (skipped when the last search, refusing nothing,
-// reached every part: its tree is then optimal).
+// A second pass finds the lanes at a bound inside a part of the forest
+// whose reduced cost, from the forest alone, has the wrong sign: each
+// closes a cycle of negative cost with the forest, and they are pivoted
+// in the same way, most violating first. That changes the forest; while
+// one pass then finds at least minInsideViol such lanes, they are
+// cancelled again (up to maxInsideRounds rounds). A pass then lists the
+// lanes at a bound between parts under the part their spare direction
+// leads to (zero flow: the head's; full: the tail's), each with the part
+// at its other end and the offset between the two parts that gives it
+// reduced cost 0. The parts are joined into a strongly feasible tree by a
+// label-correcting shortest-path search over those lists (first-in
+// first-out, with subtree disassembly) that gives every part the highest
+// potentials its lanes at a bound allow, hanging it below a neighbour
+// through such a lane with reduced cost 0 in the direction in which it
+// can still move; the search starts from H under excess supply, else from
+// the largest part, and parts it cannot reach hang from R by artificial
+// arcs of zero flow (never used again). From an optimal plan this gives
+// an optimal tree. When no lane inside a part had to be cancelled, lanes
+// the search finds closing cycles of negative cost (it refuses them) are
+// pivoted into that tree and the lists and the search are made once more
+// from the new plan (one round of cancelling in all, maxRounds); then
+// block search finishes. A plan that is optimal except for a few cycles
+// thus needs four or five passes over the lanes, one or two searches over
+// the lanes at a bound, a few pivots per cycle and the final pricing
+// (skipped when the last search, refusing nothing, reached every part:
+// its tree is then optimal).
 //
 // On a dense network (at least 32,768 lanes and 32 per node, see
 // siftMinLanes) whose supply equals its demand and whose lanes have no
@@ -1823,6 +1829,7 @@ func (s *simplex) warmStart(x []int64) (bool, []int32, bool, bool, error) {
 	}
 	forest := make([]int32, 0, nn)
 	var superbasic []int32
+	var fstart, fadj []int32 // the forest's undirected adjacency
 	// makeForest fills forest and superbasic.
 	makeForest := func() {
 		for v := range uf {
@@ -1836,6 +1843,7 @@ func (s *simplex) warmStart(x []int64) (bool, []int32, bool, bool, error) {
 				superbasic = append(superbasic, a)
 			}
 		}
+		fstart, fadj = s.undirectedInto(forest, nn, fstart, fadj)
 	}
 	// boundState is the state arc a's flow gives it outside the tree.
 	boundState := func(a int32) int8 {
@@ -1857,17 +1865,14 @@ func (s *simplex) warmStart(x []int64) (bool, []int32, bool, bool, error) {
 			cnt[t+1] += k
 		}
 	}
-	// changed holds the arcs whose state differs from the one they had
-	// when the lists were made (boundLists), in no particular order.
-	var changed []int32
 	// cancel pivots arcs into the current tree: first the free arcs of
 	// freeTry (left out of the forest) towards lower cost, then the arcs
 	// of try (at a bound) when eligible, most violating first. Only the
 	// arcs of touched (which must hold every tree arc not artificial and
 	// every arc of freeTry and try) can change flow; afterwards their
 	// states follow their flows (the tree is dropped), free keeps those
-	// strictly between their bounds, and those whose state changed join
-	// changed.
+	// strictly between their bounds, and the counts cnt follow the
+	// states.
 	cancel := func(freeTry, try []int32, touched []int32) (bool, error) {
 		before := make([]int8, len(touched))
 		for i, a := range touched {
@@ -1942,7 +1947,6 @@ func (s *simplex) warmStart(x []int64) (bool, []int32, bool, bool, error) {
 			if st != before[i] {
 				count(a, before[i], -1)
 				count(a, st, 1)
-				changed = append(changed, a)
 			}
 		}
 		return false, nil
@@ -1958,16 +1962,11 @@ func (s *simplex) warmStart(x []int64) (bool, []int32, bool, bool, error) {
 		}
 		return cancel(nil, try, touched)
 	}
-	// artTree is the forest with each part hung from R by the artificial
-	// arc of its smallest node: a strongly feasible tree of free arcs.
-	artTree := func() []int32 {
-		tree := append(make([]int32, 0, nn), forest...)
-		for v := int32(0); v < int32(nn); v++ {
-			if find(v) == v {
-				tree = append(tree, int32(s.artStart)+v)
-			}
-		}
-		return tree
+	// setArtTree sets the tree to the forest with each part hung from R
+	// by the artificial arc of its smallest node: a strongly feasible
+	// tree of free arcs.
+	setArtTree := func() {
+		s.setForestTree(forest, fstart, fadj, func(v int32) bool { return find(v) == v })
 	}
 	// parts builds the forest of free lanes; when some free lanes close
 	// cycles it first cancels those (in a tree of the parts hung from R,
@@ -1978,7 +1977,7 @@ func (s *simplex) warmStart(x []int64) (bool, []int32, bool, bool, error) {
 	parts := func() (comp []int32, rho []int64, treeSet, unb bool, err error) {
 		makeForest()
 		if len(superbasic) > 0 {
-			s.setTree(artTree())
+			setArtTree()
 			touched := append([]int32(nil), free...)
 			freeTry := append([]int32(nil), superbasic...)
 			if unb, err := cancel(freeTry, nil, touched); err != nil || unb {
@@ -1987,11 +1986,8 @@ func (s *simplex) warmStart(x []int64) (bool, []int32, bool, bool, error) {
 			makeForest()
 			treeSet = true
 		}
-		comp = make([]int32, nn)
-		for v := range comp {
-			comp[v] = find(int32(v))
-		}
-		return comp, s.forestPotentials(forest, comp), treeSet, false, nil
+		comp, rho = s.forestParts(fstart, fadj)
+		return comp, rho, treeSet, false, nil
 	}
 	if dense && s.canSweep(int64(maxRate)) {
 		// A dense network: searches by sweeps over the lanes (no lists;
@@ -2008,7 +2004,7 @@ func (s *simplex) warmStart(x []int64) (bool, []int32, bool, bool, error) {
 			}
 			hasTree = hasTree || treeSet
 			if !hasTree {
-				s.setTree(artTree())
+				setArtTree()
 				s.computePotentials()
 				hasTree = true
 			}
@@ -2039,46 +2035,36 @@ func (s *simplex) warmStart(x []int64) (bool, []int32, bool, bool, error) {
 	if dense {
 		s.boundCounts(cnt)
 	}
-	var lists [2]partLists
 	for round := 0; ; round++ {
 		comp, rho, _, unb, err := parts()
 		if err != nil || unb {
 			return true, nil, false, unb, err
 		}
 		var viol []int32
-		if lists[0].list == nil {
-			lists[0], viol = s.boundLists(cnt, comp, rho)
-		} else {
-			// The lists still hold every arc that was at a bound when
-			// they were made (stale entries are skipped); the arcs
-			// whose state changed since are listed apart.
-			slices.Sort(changed)
-			changed = slices.Compact(changed)
-			lists[1] = s.extraLists(changed)
-			if round < maxInsideRounds {
-				// Cancelling changes the forest, and with it the lanes
-				// inside parts: more of them may now have the wrong
-				// sign. Many such lanes make the search refuse many
-				// more (the parts they join rise against each other),
-				// so they are cancelled first while they are many.
-				if viol = s.insideViolations(comp, rho); len(viol) < minInsideViol {
-					viol = nil
-				}
+		if round < maxInsideRounds {
+			// Cancelling changes the forest, and with it the lanes
+			// inside parts: more of them may now have the wrong sign.
+			// Many such lanes make the search refuse many more (the
+			// parts they join rise against each other), so after the
+			// first round they are cancelled first while they are many.
+			if viol = s.insideViolations(comp, rho); round > 0 && len(viol) < minInsideViol {
+				viol = nil
 			}
 		}
-		if (round < maxRounds || round < maxInsideRounds) && len(viol) > 0 {
+		if len(viol) > 0 {
 			// Lanes at a bound inside a part with the wrong sign of
 			// reduced cost close cycles of negative cost with the
 			// forest: cancel them in the forest (each part hung from R)
 			// and start again.
-			s.setTree(artTree())
+			setArtTree()
 			touched := append(append([]int32(nil), free...), viol...)
 			if unb, err := cancel(nil, viol, touched); err != nil || unb {
 				return true, nil, false, unb, err
 			}
 			continue
 		}
-		try, proved := s.completeTree(forest, comp, rho, lists)
+		pl, inside := s.buildPartLists(cnt, comp, rho)
+		try, proved := s.completeTree(forest, comp, rho, pl, inside)
 		if len(try) > 0 && round < maxRounds {
 			// Lanes the search found closing cycles of negative cost
 			// (across parts, or inside one): pivot them into the tree
@@ -2119,52 +2105,6 @@ const (
 // solves of sifting, dense networks).
 const maxRounds = 1
 
-// coarser reports whether every part of prev lies inside one part of
-// next (both give each node its part's smallest node). O(|V|).
-func coarser(prev, next []int32) bool {
-	img := make([]int32, len(prev))
-	for v := range img {
-		img[v] = -1
-	}
-	for v, p := range prev {
-		switch img[p] {
-		case -1:
-			img[p] = next[v]
-		case next[v]:
-		default:
-			return false
-		}
-	}
-	return true
-}
-
-// extraLists lists the arcs of arcs that sit at a bound, like
-// boundLists. O(|V| + len(arcs)).
-func (s *simplex) extraLists(arcs []int32) partLists {
-	nn := s.nNodes
-	xstart := make([]int32, nn+1)
-	var keep []boundArc
-	var at []int32
-	for _, a := range arcs {
-		if b, u, ok := s.listEntry(a); ok {
-			keep = append(keep, b)
-			at = append(at, u)
-			xstart[u+1]++
-		}
-	}
-	for v := 0; v < nn; v++ {
-		xstart[v+1] += xstart[v]
-	}
-	xend := make([]int32, nn)
-	copy(xend, xstart[:nn])
-	list := make([]boundArc, len(keep))
-	for i, b := range keep {
-		list[xend[at[i]]] = b
-		xend[at[i]]++
-	}
-	return partLists{list, xstart[:nn], xend}
-}
-
 // pivotFree pivots the free arc a (not in the tree) in, towards lower
 // cost; on a tie towards less flow (a finite limit, so a zero-cost cycle
 // is never called unbounded).
@@ -2180,25 +2120,26 @@ func (s *simplex) pivotFree(a int32) (bool, error) {
 	return s.pivot(a, dir, r)
 }
 
-// forestPotentials returns the potentials within the forest's parts:
-// reduced cost 0 on forest arcs, 0 at each part's smallest node; all zero
-// (no guidance and no overflow risk) when potentials need checked
-// arithmetic. O(|V|).
-func (s *simplex) forestPotentials(forest, comp []int32) []int64 {
+// forestParts returns each node's part of the forest (fstart, fadj: its
+// undirected adjacency), named by its smallest node, and the potentials
+// within parts: reduced cost 0 on forest arcs, 0 at each part's smallest
+// node; all zero (no guidance and no overflow risk) when potentials need
+// checked arithmetic. O(|V|).
+func (s *simplex) forestParts(fstart, fadj []int32) (comp []int32, rho []int64) {
 	nn := s.nNodes
-	fstart, fadj := s.undirected(forest, nn)
-	rho := make([]int64, nn)
-	if s.checked {
-		return rho
+	comp = make([]int32, nn)
+	for v := range comp {
+		comp[v] = -1
 	}
-	done := make([]bool, nn)
+	rho = make([]int64, nn)
+	withRho := !s.checked
 	stack := make([]int32, 0, 64)
-	for v0 := 0; v0 < nn; v0++ {
-		if done[v0] {
+	for v0 := int32(0); v0 < int32(nn); v0++ {
+		if comp[v0] >= 0 {
 			continue
 		}
-		done[v0] = true
-		stack = append(stack[:0], int32(v0))
+		comp[v0] = v0
+		stack = append(stack[:0], v0)
 		for len(stack) > 0 {
 			v := stack[len(stack)-1]
 			stack = stack[:len(stack)-1]
@@ -2208,114 +2149,101 @@ func (s *simplex) forestPotentials(forest, comp []int32) []int64 {
 				if w == v {
 					w = h
 				}
-				if done[w] {
+				if comp[w] >= 0 {
 					continue
 				}
-				done[w] = true
+				comp[w] = v0
 				// r(a) = cost + p(tail) - p(head) = 0
-				if t == w {
+				switch {
+				case !withRho:
+				case t == w:
 					rho[w] = rho[v] - s.costOf(a)
-				} else {
+				default:
 					rho[w] = rho[v] + s.costOf(a)
 				}
 				stack = append(stack, w)
 			}
 		}
 	}
-	return rho
+	return comp, rho
 }
 
-// boundArc is an arc at a bound between two parts of the forest, listed
-// at the node u its spare direction leads to: from is the node at its
-// other end (^from, negative, when the arc is at capacity; from >= 0 at
-// the lower bound) and w = p(from) - p(u) for reduced cost 0 (minus the
-// rate at the lower bound, plus it at capacity).
-type boundArc struct {
-	arc, from int32
-	w         int64
+// partArc is an arc at a bound between two parts of the forest, listed
+// under the part its spare direction leads to (the head's part at the
+// lower bound, the tail's at capacity): arc, d the part at its other end,
+// and k the offset of d, less the listing part's offset, that gives the
+// arc reduced cost 0 (minus its reduced cost from the parts' potentials
+// rho at the lower bound, plus it at capacity; see partSearch for
+// offsets).
+type partArc struct {
+	arc, d int32
+	k      int64
 }
 
-// partLists lists arcs at a bound between parts by node: node v's are
-// list[start[v]:end[v]].
+// partLists lists arcs at a bound between parts by the part they are
+// listed under: part c's are list[start[c]:end[c]].
 type partLists struct {
-	list       []boundArc
+	list       []partArc
 	start, end []int32
 }
 
-// listEntry returns arc a as listed, with the node it is listed at, or
-// false when a is not at a bound.
-func (s *simplex) listEntry(a int32) (boundArc, int32, bool) {
-	st := s.state[a]
-	if st == stateTree {
-		return boundArc{}, 0, false
-	}
-	t, h := s.ends(a)
-	r := s.costOf(a)
-	if st == stateLower {
-		return boundArc{a, t, -r}, h, true
-	}
-	return boundArc{a, ^h, r}, t, true
-}
-
-// boundLists lists the arcs at a bound that join two parts of the forest
-// by the node their spare direction leads to (head at the lower bound,
-// tail at capacity), in index order: those of node v are
-// list[lstart[v]:lend[v]]; the slots come from the per-node counts cnt
-// (at v+1, arcs inside parts included). Arcs at a bound inside a part
-// whose reduced cost (from rho) has the wrong sign are returned in viol
-// (none when rho is all zero, in checked arithmetic). One pass over the
-// lanes; 16 bytes per listed arc.
-func (s *simplex) boundLists(cnt, comp []int32, rho []int64) (pl partLists, viol []int32) {
+// buildPartLists lists the arcs at a bound that join two parts of the
+// forest (comp, with potentials within parts rho) by part, in index order;
+// the slots come from the per-node counts cnt (at v+1, arcs inside parts
+// included). Arcs at a bound inside a part whose reduced cost from rho has
+// the wrong sign are returned in viol (none in checked arithmetic, where
+// rho is all zero). One pass over the arcs; 16 bytes per listed arc.
+func (s *simplex) buildPartLists(cnt, comp []int32, rho []int64) (pl partLists, viol []int32) {
 	nn, m := s.nNodes, s.m
-	lstart := make([]int32, nn+1)
+	pstart := make([]int32, nn+1)
 	for v := 0; v < nn; v++ {
-		lstart[v+1] = lstart[v] + cnt[v+1]
+		pstart[comp[v]+1] += cnt[v+1]
 	}
-	list := make([]boundArc, lstart[nn])
-	lstart = lstart[:nn]
-	lend := make([]int32, nn)
-	copy(lend, lstart)
+	for c := 0; c < nn; c++ {
+		pstart[c+1] += pstart[c]
+	}
+	list := make([]partArc, pstart[nn])
+	pstart = pstart[:nn]
+	pend := make([]int32, nn)
+	copy(pend, pstart)
 	check := !s.checked
+	// add lists arc a (cost r, state st) unless it lies inside a part.
+	// (rc is unchecked: rho is all zero in checked arithmetic.)
+	add := func(a int32, t, h int32, r int64, st int8) {
+		ct, ch := comp[t], comp[h]
+		rc := r + rho[t] - rho[h]
+		switch {
+		case ct == ch:
+			if check && int64(st)*rc < 0 {
+				viol = append(viol, a)
+			}
+		case st == stateLower:
+			list[pend[ch]] = partArc{a, ct, -rc}
+			pend[ch]++
+		default:
+			list[pend[ct]] = partArc{a, ch, rc}
+			pend[ct]++
+		}
+	}
 	tail, head, rate, state := s.tail[:m], s.head[:m], s.rate[:m], s.state[:m]
 	for a, st := range state {
-		if st == stateTree {
-			continue
-		}
-		t, h := tail[a], head[a]
-		r := rate[a]
-		if check && comp[t] == comp[h] {
-			if rc := r + rho[t] - rho[h]; int64(st)*rc < 0 {
-				viol = append(viol, int32(a))
-			}
-		}
-		if st == stateLower {
-			list[lend[h]] = boundArc{int32(a), t, -r}
-			lend[h]++
-		} else {
-			list[lend[t]] = boundArc{int32(a), ^h, r}
-			lend[t]++
+		if st != stateTree {
+			add(int32(a), tail[a], head[a], rate[a], st)
 		}
 	}
-	for a := s.holdStart; a < s.artStart; a++ {
-		b, u, ok := s.listEntry(int32(a))
-		if !ok {
-			continue
+	for a := int32(s.holdStart); a < int32(s.artStart); a++ {
+		if st := s.state[a]; st != stateTree {
+			t, h := s.ends(a)
+			add(a, t, h, s.costOf(a), st)
 		}
-		if t, h := s.ends(int32(a)); check && comp[t] == comp[h] {
-			if rc := rho[t] - rho[h]; int64(s.state[a])*rc < 0 {
-				viol = append(viol, int32(a))
-			}
-		}
-		list[lend[u]] = b
-		lend[u]++
 	}
-	return partLists{list, lstart, lend}, viol
+	return partLists{list, pstart, pend}, viol
 }
 
 // insideViolations returns the lanes and hold arcs at a bound inside a
 // part (comp) whose reduced cost from the parts' potentials rho has the
 // wrong sign: each closes a cycle of negative cost with the forest. One
-// pass over the arcs (empty in checked arithmetic, as in boundLists).
+// pass over the arcs (empty in checked arithmetic, as in buildPartLists).
 func (s *simplex) insideViolations(comp []int32, rho []int64) (viol []int32) {
 	if s.checked {
 		return nil
@@ -2360,34 +2288,23 @@ func partMembers(comp []int32, nn int) (cstart, members []int32) {
 // completeTree joins the parts of the forest (comp: each node's part, by
 // its smallest node; rho: potentials within parts) into a strongly
 // feasible spanning tree and makes it the current tree (see "Warm start"
-// at Solve). The arcs at a bound are listed by the node their spare
-// direction leads to (lists[0] from boundLists, lists[1] those whose state
-// changed since; entries whose state no longer matches are skipped). It
+// at Solve). The arcs at a bound between parts are listed by the part
+// their spare direction leads to (pl, from buildPartLists); inside are the
+// arcs at a bound inside parts with the wrong sign of reduced cost. It
 // returns, sorted, up to maxRefused arcs found closing cycles of negative
-// cost: arcs between parts the search refused, and arcs inside a part
-// with the wrong sign of reduced cost. It also reports whether the tree is
-// proved optimal: when nothing was refused, one search reached every part
-// and ran to the end (not capped, unchecked arithmetic), every listed arc
-// was read after the offset of its part was final and kept the right
-// sign, and the lists hold every arc at a bound. Time O(|V|) plus the
-// search, capped at about eight passes over the lists.
-func (s *simplex) completeTree(forest, comp []int32, rho []int64, lists [2]partLists) ([]int32, bool) {
+// cost: arcs between parts the search refused, and those of inside. It
+// also reports whether the tree is proved optimal: when nothing was
+// refused, one search reached every part and ran to the end (not capped,
+// unchecked arithmetic), every listed arc was read after the offset of its
+// part was final and kept the right sign, and the lists hold every arc at
+// a bound. Time O(|V|) plus the search, capped at about eight passes over
+// the lists.
+func (s *simplex) completeTree(forest, comp []int32, rho []int64, pl partLists, inside []int32) ([]int32, bool) {
 	nn := s.nNodes
-	cstart, members := partMembers(comp, nn)
-	q := newPartSearch(comp, rho, s.state, !s.checked)
-	q.limit = 8*(len(lists[0].list)+len(lists[1].list)+nn) + 1024
-	scan := func(c int32) {
-		for _, u := range members[cstart[c]:cstart[c+1]] {
-			pu := q.nd[u].rho + q.ps[c].lab
-			for k := range lists {
-				if pl := &lists[k]; pl.list != nil {
-					q.scanList(pl.list[pl.start[u]:pl.end[u]], c, pu)
-				}
-			}
-		}
-		if q.work > q.limit {
-			q.improve = false
-		}
+	q := newPartSearch(nn, !s.checked)
+	q.limit = 8*(len(pl.list)+nn) + 1024
+	for _, a := range inside {
+		q.refuse(a)
 	}
 	search := func(r int32) {
 		q.start(r, -rho[r])
@@ -2396,7 +2313,10 @@ func (s *simplex) completeTree(forest, comp []int32, rho []int64, lists [2]partL
 			if c < 0 {
 				break
 			}
-			scan(c)
+			q.scanPart(pl.list[pl.start[c]:pl.end[c]], c)
+			if q.work > q.limit {
+				q.improve = false
+			}
 		}
 	}
 	if nn > 0 {
@@ -2404,9 +2324,14 @@ func (s *simplex) completeTree(forest, comp []int32, rho []int64, lists [2]partL
 		if s.hold >= 0 {
 			first = comp[s.hold]
 		} else {
-			for v := int32(0); v < int32(nn); v++ {
-				if comp[v] == v && cstart[v+1]-cstart[v] > cstart[first+1]-cstart[first] {
-					first = v
+			// The largest part.
+			size := make([]int32, nn)
+			for _, c := range comp {
+				size[c]++
+			}
+			for c := int32(0); c < int32(nn); c++ {
+				if size[c] > size[first] {
+					first = c
 				}
 			}
 		}
@@ -2432,7 +2357,7 @@ func (s *simplex) completeTree(forest, comp []int32, rho []int64, lists [2]partL
 		if q.par[v] >= 0 {
 			tree = append(tree, q.par[v])
 		} else {
-			tree = append(tree, int32(s.artStart)+q.at[v])
+			tree = append(tree, int32(s.artStart)+v)
 		}
 	}
 	s.setTree(tree)
@@ -2443,18 +2368,17 @@ func (s *simplex) completeTree(forest, comp []int32, rho []int64, lists [2]partL
 
 // partSearch is the label-correcting search of completeTree over the
 // parts of a forest (indexed by their smallest node): a part's lab is
-// its offset (p(v) = rho[v] + lab[part]), par the arc to its parent part
-// and at the node where that arc joins it. The active parts of a search
-// form a tree kept as a preorder list (tnx, tpv, dep) so that a part
-// whose offset rises can drop its subtree (whose offsets are then out of
-// date) and a cycle of negative cost is seen as a part rising below
-// itself. Hot data is packed per node (part, rho) and per part (offset,
-// search number, flags): two cache lines per arc scanned.
+// its offset (p(v) = rho[v] + lab[part]) and par the arc to its parent
+// part. The active parts of a search form a tree kept as a preorder list
+// (tnx, tpv, dep) so that a part whose offset rises can drop its subtree
+// (whose offsets are then out of date) and a cycle of negative cost is
+// seen as a part rising below itself. An arc scanned reads its list entry
+// (which holds the part at its other end and the offset it gives) and
+// that part's state (offset, search number, flags): one cache line at a
+// random place per arc.
 type partSearch struct {
-	nd    []searchNode
 	ps    []searchPart
 	par   []int32
-	at    []int32
 	ppart []int32 // parent part
 	tnx   []int32
 	tpv   []int32
@@ -2462,7 +2386,6 @@ type partSearch struct {
 	queue []int32
 	qh    int
 	qt    int
-	state []int8
 	// improve: offsets may still rise (false once work passed limit, or
 	// in checked arithmetic, where rho is all zero and the first tight
 	// arc found is kept).
@@ -2472,43 +2395,30 @@ type partSearch struct {
 	refused     []int32
 }
 
-type searchNode struct {
-	rho  int64
-	comp int32
-}
-
 type searchPart struct {
 	lab      int64
 	srch     int32 // search number; 0: not reached
 	act, inq bool
 }
 
-func newPartSearch(comp []int32, rho []int64, state []int8, improve bool) *partSearch {
-	nn := len(comp)
-	q := &partSearch{
-		nd:      make([]searchNode, nn),
+func newPartSearch(nn int, improve bool) *partSearch {
+	return &partSearch{
 		ps:      make([]searchPart, nn),
 		par:     make([]int32, nn),
-		at:      make([]int32, nn),
 		ppart:   make([]int32, nn),
 		tnx:     make([]int32, nn),
 		tpv:     make([]int32, nn),
 		dep:     make([]int32, nn),
 		queue:   make([]int32, nn+1),
-		state:   state,
 		improve: improve,
 	}
-	for v := range q.nd {
-		q.nd[v] = searchNode{rho[v], comp[v]}
-	}
-	return q
 }
 
 // start begins a new search from part r with offset lab.
 func (q *partSearch) start(r int32, lab int64) {
 	q.cur++
 	q.ps[r].lab, q.ps[r].srch, q.ps[r].act = lab, q.cur, true
-	q.par[r], q.at[r] = -1, r
+	q.par[r] = -1
 	q.tnx[r], q.tpv[r], q.dep[r] = -1, -1, 0
 	q.push(r)
 }
@@ -2537,44 +2447,26 @@ func (q *partSearch) next() int32 {
 	return -1
 }
 
-// scanList scans the arcs listed at a node of part c whose potential is
-// pu. The loop is kept small (raising a part is out of line) so that its
-// state stays in registers.
-func (q *partSearch) scanList(arcs []boundArc, c int32, pu int64) {
-	nd, ps, state := q.nd, q.ps, q.state
+// scanPart scans the arcs listed under part c. The loop is kept small
+// (raising a part is out of line) so that its state stays in registers.
+// (c's offset cannot change during the scan: no arc listed under c ends
+// in c, and a part rising below itself is refused.)
+func (q *partSearch) scanPart(arcs []partArc, c int32) {
+	ps := q.ps
 	cur, improve := q.cur, q.improve
-	pc := pu - ps[c].lab // rho of the scanning node
+	lab := ps[c].lab
 	q.work += len(arcs)
 	for _, b := range arcs {
-		a, v, st := b.arc, b.from, stateLower
-		if v < 0 {
-			v, st = ^v, stateUpper
-		}
-		// (state[a] != st: a stale entry, checked only where it
-		// matters.)
-		nv := nd[v]
-		d := nv.comp
-		if d == c {
-			// Inside the part: the forest fixes both ends; the wrong
-			// sign of reduced cost means a cycle of negative cost.
-			if improve && nv.rho < pc+b.w && state[a] == st {
-				q.refuse(a)
-			}
-			continue
-		}
-		pd := &ps[d]
+		pd := &ps[b.d]
 		sd := pd.srch
 		if sd != 0 && sd != cur {
 			continue
 		}
-		nl := pu + b.w - nv.rho
+		nl := lab + b.k
 		if sd == cur && (!improve || nl <= pd.lab) {
 			continue
 		}
-		if state[a] != st {
-			continue
-		}
-		q.raise(c, d, a, v, nl)
+		q.raise(c, b.d, b.arc, nl)
 	}
 }
 
@@ -2587,15 +2479,15 @@ func (q *partSearch) refuse(a int32) {
 }
 
 // raise gives part d offset nl, hung below part c by arc a (joining d at
-// node v), unless that closes a cycle of negative cost (refused).
-func (q *partSearch) raise(c, d, a, v int32, nl int64) {
+// its end in d), unless that closes a cycle of negative cost (refused).
+func (q *partSearch) raise(c, d, a int32, nl int64) {
 	pd := &q.ps[d]
 	if pd.srch == q.cur && pd.act && !q.detach(d, c) {
 		q.refuse(a)
 		return
 	}
 	pd.lab, pd.srch, pd.act = nl, q.cur, true
-	q.par[d], q.at[d], q.ppart[d] = a, v, c
+	q.par[d], q.ppart[d] = a, c
 	nx := q.tnx[c]
 	q.tnx[c], q.tpv[d], q.tnx[d] = d, c, nx
 	if nx >= 0 {
@@ -2644,7 +2536,7 @@ const maxRefused = 1024
 // A warm start searches by sweeps (sweepTree) instead of lists
 // (completeTree) when the network has at least sweepMinLanes lanes and
 // sweepDegree lanes per node: there the searches are shallow, and listing
-// the lanes at a bound by node (scattered writes over a large array)
+// the lanes at a bound by part (scattered writes over a large array)
 // costs more than several sweeps. On smaller networks the lists are
 // cheaper. Measured on complete transportation networks (repair of 10
 // perturbed cycles, sweeps against lists): 1.3-1.4x slower at 10^5 and
@@ -3114,19 +3006,19 @@ func (s *simplex) canSweep(maxRate int64) bool {
 // O(|V|).
 func (s *simplex) setTree(tree []int32) {
 	r := s.root
-	nt := s.nNodes + 1
 	for _, a := range tree {
 		s.state[a] = stateTree
 	}
-	start, adj := s.undirected(tree, nt)
-	order := make([]int32, 0, nt)
-	seen := make([]bool, nt)
-	seen[r] = true
-	stack := append(make([]int32, 0, 64), r)
+	start, adj := s.undirectedInto(tree, s.nNodes+1, s.startBuf, s.adjBuf)
+	s.startBuf, s.adjBuf = start, adj
+	s.parent[r] = -1
+	order := s.orderBuf[:0]
+	stack := append(s.stackBuf[:0], r)
 	for len(stack) > 0 {
 		v := stack[len(stack)-1]
 		stack = stack[:len(stack)-1]
 		order = append(order, v)
+		pv := s.parent[v]
 		// Push children in reverse so they are visited in arc order.
 		for i := start[v+1] - 1; i >= start[v]; i-- {
 			e := adj[i]
@@ -3135,25 +3027,80 @@ func (s *simplex) setTree(tree []int32) {
 			if w == v {
 				w = h
 			}
-			if seen[w] {
-				continue
+			if w == pv {
+				continue // (a tree has no parallel arcs)
 			}
-			seen[w] = true
 			s.parent[w], s.pred[w], s.up[w] = v, e, t == w
 			stack = append(stack, w)
 		}
 	}
-	for i, v := range order {
-		s.size[v] = 1
-		s.thread[v] = order[(i+1)%len(order)]
-		s.rthread[v] = order[(i+len(order)-1)%len(order)]
+	s.orderBuf, s.stackBuf = order, stack
+	s.setThreads(order)
+}
+
+// setForestTree sets the tree to the forest (undirected adjacency fstart,
+// fadj over the nodes but R) with each part hung from R by the artificial
+// arc of its part root (isRoot, one node per part): the tree setTree
+// builds from the forest's arcs followed by those artificial arcs in node
+// order, without listing them. O(|V|).
+func (s *simplex) setForestTree(forest, fstart, fadj []int32, isRoot func(int32) bool) {
+	r := s.root
+	nn := int32(s.nNodes)
+	for _, a := range forest {
+		s.state[a] = stateTree
+	}
+	order := append(s.orderBuf[:0], r)
+	stack := s.stackBuf[:0]
+	for v0 := int32(0); v0 < nn; v0++ {
+		if !isRoot(v0) {
+			continue
+		}
+		a := int32(s.artStart) + v0
+		s.state[a] = stateTree
+		t, _ := s.ends(a)
+		s.parent[v0], s.pred[v0], s.up[v0] = r, a, t == v0
+		stack = append(stack, v0)
+		for len(stack) > 0 {
+			v := stack[len(stack)-1]
+			stack = stack[:len(stack)-1]
+			order = append(order, v)
+			pv := s.parent[v]
+			// Push children in reverse so they are visited in arc order.
+			for i := fstart[v+1] - 1; i >= fstart[v]; i-- {
+				e := fadj[i]
+				t, h := s.ends(e)
+				w := t
+				if w == v {
+					w = h
+				}
+				if w == pv {
+					continue // (a forest has no parallel arcs)
+				}
+				s.parent[w], s.pred[w], s.up[w] = v, e, t == w
+				stack = append(stack, w)
+			}
+		}
+	}
+	s.orderBuf, s.stackBuf = order, stack
+	s.setThreads(order)
+}
+
+// setThreads sets thread, rthread, size and last from the preorder of the
+// tree (parent set), which starts at R. O(|V|).
+func (s *simplex) setThreads(order []int32) {
+	thread, rthread, size, parent, last := s.thread, s.rthread, s.size, s.parent, s.last
+	prev := order[len(order)-1]
+	for _, v := range order {
+		size[v] = 1
+		thread[prev], rthread[v] = v, prev
+		prev = v
 	}
 	for i := len(order) - 1; i > 0; i-- {
 		v := order[i]
-		s.size[s.parent[v]] += s.size[v]
+		size[parent[v]] += size[v]
 	}
 	for i, v := range order {
-		s.last[v] = order[i+int(s.size[v])-1]
+		last[v] = order[i+int(size[v])-1]
 	}
 	s.treeDone()
 }
@@ -3176,7 +3123,18 @@ func (s *simplex) treeDone() {
 // nodes 0..n-1: the arcs at node v are adj[start[v]:start[v+1]], each arc
 // listed at both ends. O(n + len(arcs)).
 func (s *simplex) undirected(arcs []int32, n int) (start, adj []int32) {
-	start = make([]int32, n+1)
+	return s.undirectedInto(arcs, n, nil, nil)
+}
+
+// undirectedInto is undirected reusing the arrays start and adj when they
+// are large enough.
+func (s *simplex) undirectedInto(arcs []int32, n int, start, adj []int32) ([]int32, []int32) {
+	if cap(start) >= n+1 {
+		start = start[:n+1]
+		clear(start)
+	} else {
+		start = make([]int32, n+1)
+	}
 	for _, a := range arcs {
 		t, h := s.ends(a)
 		start[t+1]++
@@ -3185,15 +3143,23 @@ func (s *simplex) undirected(arcs []int32, n int) (start, adj []int32) {
 	for v := 0; v < n; v++ {
 		start[v+1] += start[v]
 	}
-	adj = make([]int32, start[n])
-	fill := make([]int32, n)
-	copy(fill, start[:n])
-	for _, a := range arcs {
-		t, h := s.ends(a)
-		adj[fill[t]] = a
-		fill[t]++
-		adj[fill[h]] = a
-		fill[h]++
+	if k := int(start[n]); cap(adj) >= k {
+		adj = adj[:k]
+	} else {
+		adj = make([]int32, k)
 	}
+	// Fill each node's range from its end backwards; start[v+1] ends at
+	// start[v].
+	for i := len(arcs) - 1; i >= 0; i-- {
+		a := arcs[i]
+		t, h := s.ends(a)
+		start[t+1]--
+		adj[start[t+1]] = a
+		start[h+1]--
+		adj[start[h+1]] = a
+	}
+	// Now start[v+1] is where v's arcs begin: shift back.
+	copy(start[:n], start[1:])
+	start[n] = int32(len(adj))
 	return start, adj
 }
