@@ -207,7 +207,7 @@ type simplex struct {
 	pot                                       []int64
 
 	// scratch for setTree and setForestTree
-	orderBuf, stackBuf, startBuf, adjBuf []int32
+	orderBuf, stackBuf, startBuf, adjBuf, endsBuf []int32
 
 	// scratch for tree updates (indexed by position on the stem)
 	stemNode, stemPred, stemSize, stemRthr, stemAfter, stemLast []int32
@@ -3006,11 +3006,34 @@ func (s *simplex) canSweep(maxRate int64) bool {
 // O(|V|).
 func (s *simplex) setTree(tree []int32) {
 	r := s.root
-	for _, a := range tree {
+	nt := s.nNodes + 1
+	// Each arc's ends are read once (tree arcs lie anywhere in the lane
+	// arrays), then the adjacency lists positions in tree.
+	ends := slices.Grow(s.endsBuf[:0], 2*len(tree))[:2*len(tree)]
+	start := slices.Grow(s.startBuf[:0], nt+1)[:nt+1]
+	clear(start)
+	for i, a := range tree {
 		s.state[a] = stateTree
+		t, h := s.ends(a)
+		ends[2*i], ends[2*i+1] = t, h
+		start[t+1]++
+		start[h+1]++
 	}
-	start, adj := s.undirectedInto(tree, s.nNodes+1, s.startBuf, s.adjBuf)
-	s.startBuf, s.adjBuf = start, adj
+	for v := 0; v < nt; v++ {
+		start[v+1] += start[v]
+	}
+	adj := slices.Grow(s.adjBuf[:0], int(start[nt]))[:start[nt]]
+	for i := len(tree) - 1; i >= 0; i-- {
+		t, h := ends[2*i], ends[2*i+1]
+		start[t+1]--
+		adj[start[t+1]] = int32(i)
+		start[h+1]--
+		adj[start[h+1]] = int32(i)
+	}
+	// start[v+1] is now where v's arcs begin: shift back.
+	copy(start[:nt], start[1:])
+	start[nt] = int32(len(adj))
+	s.endsBuf, s.startBuf, s.adjBuf = ends, start, adj
 	s.parent[r] = -1
 	order := s.orderBuf[:0]
 	stack := append(s.stackBuf[:0], r)
@@ -3020,9 +3043,9 @@ func (s *simplex) setTree(tree []int32) {
 		order = append(order, v)
 		pv := s.parent[v]
 		// Push children in reverse so they are visited in arc order.
-		for i := start[v+1] - 1; i >= start[v]; i-- {
-			e := adj[i]
-			t, h := s.ends(e)
+		for j := start[v+1] - 1; j >= start[v]; j-- {
+			i := adj[j]
+			t, h := ends[2*i], ends[2*i+1]
 			w := t
 			if w == v {
 				w = h
@@ -3030,7 +3053,7 @@ func (s *simplex) setTree(tree []int32) {
 			if w == pv {
 				continue // (a tree has no parallel arcs)
 			}
-			s.parent[w], s.pred[w], s.up[w] = v, e, t == w
+			s.parent[w], s.pred[w], s.up[w] = v, tree[i], t == w
 			stack = append(stack, w)
 		}
 	}
