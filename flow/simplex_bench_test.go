@@ -3,6 +3,7 @@ package flow_test
 import (
 	"os"
 	"path/filepath"
+	"slices"
 	"sort"
 	"strconv"
 	"strings"
@@ -150,5 +151,28 @@ func BenchmarkSolveFiles(b *testing.B) {
 			return n
 		}}
 		benchSolve(b, []*benchCase{c})
+	}
+}
+
+// TestBenchSeeds checks the parsing of LANECERT_BENCH_SEEDS (format
+// defined here).
+func TestBenchSeeds(t *testing.T) {
+	def := []uint64{11, 12, 13}
+	for _, c := range []struct {
+		in   string
+		want []uint64
+	}{
+		{"", def},
+		{"7", []uint64{7}},
+		{"11-14", []uint64{11, 12, 13, 14}},
+		{"5, 9-10,2", []uint64{5, 9, 10, 2}},
+		{"3-1", def},
+		{"x", def},
+		{"1-2000", def},
+		{"4,", def},
+	} {
+		if got := benchSeeds(c.in, def); !slices.Equal(got, c.want) {
+			t.Errorf("benchSeeds(%q) = %v, want %v", c.in, got, c.want)
+		}
 	}
 }
