@@ -207,7 +207,8 @@ type simplex struct {
 	pot                                       []int64
 
 	// scratch for setTree and setForestTree
-	orderBuf, stackBuf, startBuf, adjBuf, endsBuf []int32
+	orderBuf, stackBuf []int32
+	treeAdj            adjacency
 
 	// scratch for tree updates (indexed by position on the stem)
 	stemNode, stemPred, stemSize, stemRthr, stemAfter, stemLast []int32
@@ -1829,7 +1830,7 @@ func (s *simplex) warmStart(x []int64) (bool, []int32, bool, bool, error) {
 	}
 	forest := make([]int32, 0, nn)
 	var superbasic []int32
-	var fstart, fadj []int32 // the forest's undirected adjacency
+	var fadj adjacency // the forest's
 	// makeForest fills forest and superbasic.
 	makeForest := func() {
 		for v := range uf {
@@ -1843,7 +1844,7 @@ func (s *simplex) warmStart(x []int64) (bool, []int32, bool, bool, error) {
 				superbasic = append(superbasic, a)
 			}
 		}
-		fstart, fadj = s.undirectedInto(forest, nn, fstart, fadj)
+		fadj.build(s, forest, nn)
 	}
 	// boundState is the state arc a's flow gives it outside the tree.
 	boundState := func(a int32) int8 {
@@ -1966,7 +1967,7 @@ func (s *simplex) warmStart(x []int64) (bool, []int32, bool, bool, error) {
 	// by the artificial arc of its smallest node: a strongly feasible
 	// tree of free arcs.
 	setArtTree := func() {
-		s.setForestTree(forest, fstart, fadj, func(v int32) bool { return find(v) == v })
+		s.setForestTree(forest, &fadj, func(v int32) bool { return find(v) == v })
 	}
 	// parts builds the forest of free lanes; when some free lanes close
 	// cycles it first cancels those (in a tree of the parts hung from R,
@@ -1986,7 +1987,7 @@ func (s *simplex) warmStart(x []int64) (bool, []int32, bool, bool, error) {
 			makeForest()
 			treeSet = true
 		}
-		comp, rho = s.forestParts(fstart, fadj)
+		comp, rho = s.forestParts(forest, &fadj)
 		return comp, rho, treeSet, false, nil
 	}
 	if dense && s.canSweep(int64(maxRate)) {
@@ -2120,12 +2121,12 @@ func (s *simplex) pivotFree(a int32) (bool, error) {
 	return s.pivot(a, dir, r)
 }
 
-// forestParts returns each node's part of the forest (fstart, fadj: its
-// undirected adjacency), named by its smallest node, and the potentials
+// forestParts returns each node's part of the forest (g: its adjacency),
+// named by its smallest node, and the potentials
 // within parts: reduced cost 0 on forest arcs, 0 at each part's smallest
 // node; all zero (no guidance and no overflow risk) when potentials need
 // checked arithmetic. O(|V|).
-func (s *simplex) forestParts(fstart, fadj []int32) (comp []int32, rho []int64) {
+func (s *simplex) forestParts(forest []int32, g *adjacency) (comp []int32, rho []int64) {
 	nn := s.nNodes
 	comp = make([]int32, nn)
 	for v := range comp {
@@ -2143,8 +2144,8 @@ func (s *simplex) forestParts(fstart, fadj []int32) (comp []int32, rho []int64) 
 		for len(stack) > 0 {
 			v := stack[len(stack)-1]
 			stack = stack[:len(stack)-1]
-			for _, a := range fadj[fstart[v]:fstart[v+1]] {
-				t, h := s.ends(a)
+			for _, i := range g.pos[g.start[v]:g.start[v+1]] {
+				t, h := g.ends[2*i], g.ends[2*i+1]
 				w := t
 				if w == v {
 					w = h
@@ -2157,9 +2158,9 @@ func (s *simplex) forestParts(fstart, fadj []int32) (comp []int32, rho []int64) 
 				switch {
 				case !withRho:
 				case t == w:
-					rho[w] = rho[v] - s.costOf(a)
+					rho[w] = rho[v] - s.costOf(forest[i])
 				default:
-					rho[w] = rho[v] + s.costOf(a)
+					rho[w] = rho[v] + s.costOf(forest[i])
 				}
 				stack = append(stack, w)
 			}
@@ -3006,37 +3007,23 @@ func (s *simplex) canSweep(maxRate int64) bool {
 // O(|V|).
 func (s *simplex) setTree(tree []int32) {
 	r := s.root
-	nt := s.nNodes + 1
-	// Each arc's ends are read once (tree arcs lie anywhere in the lane
-	// arrays), then the adjacency lists positions in tree.
-	ends := slices.Grow(s.endsBuf[:0], 2*len(tree))[:2*len(tree)]
-	start := slices.Grow(s.startBuf[:0], nt+1)[:nt+1]
-	clear(start)
-	for i, a := range tree {
+	for _, a := range tree {
 		s.state[a] = stateTree
-		t, h := s.ends(a)
-		ends[2*i], ends[2*i+1] = t, h
-		start[t+1]++
-		start[h+1]++
 	}
-	for v := 0; v < nt; v++ {
-		start[v+1] += start[v]
-	}
-	adj := slices.Grow(s.adjBuf[:0], int(start[nt]))[:start[nt]]
-	for i := len(tree) - 1; i >= 0; i-- {
-		t, h := ends[2*i], ends[2*i+1]
-		start[t+1]--
-		adj[start[t+1]] = int32(i)
-		start[h+1]--
-		adj[start[h+1]] = int32(i)
-	}
-	// start[v+1] is now where v's arcs begin: shift back.
-	copy(start[:nt], start[1:])
-	start[nt] = int32(len(adj))
-	s.endsBuf, s.startBuf, s.adjBuf = ends, start, adj
+	s.treeAdj.build(s, tree, s.nNodes+1)
 	s.parent[r] = -1
-	order := s.orderBuf[:0]
-	stack := append(s.stackBuf[:0], r)
+	order, stack := s.walk(s.orderBuf[:0], s.stackBuf[:0], r, tree, &s.treeAdj)
+	s.orderBuf, s.stackBuf = order, stack
+	s.setThreads(order)
+}
+
+// walk appends to order the nodes of the tree below v (v first) in the
+// preorder of a depth-first search over g, the adjacency of arcs, taking
+// each node's arcs in list order, and sets their parent, pred and up; v's
+// parent must be set. stack is scratch. O(size of the subtree).
+func (s *simplex) walk(order, stack []int32, v int32, arcs []int32, g *adjacency) ([]int32, []int32) {
+	start, pos, ends := g.start, g.pos, g.ends
+	stack = append(stack, v)
 	for len(stack) > 0 {
 		v := stack[len(stack)-1]
 		stack = stack[:len(stack)-1]
@@ -3044,7 +3031,7 @@ func (s *simplex) setTree(tree []int32) {
 		pv := s.parent[v]
 		// Push children in reverse so they are visited in arc order.
 		for j := start[v+1] - 1; j >= start[v]; j-- {
-			i := adj[j]
+			i := pos[j]
 			t, h := ends[2*i], ends[2*i+1]
 			w := t
 			if w == v {
@@ -3053,56 +3040,33 @@ func (s *simplex) setTree(tree []int32) {
 			if w == pv {
 				continue // (a tree has no parallel arcs)
 			}
-			s.parent[w], s.pred[w], s.up[w] = v, tree[i], t == w
+			s.parent[w], s.pred[w], s.up[w] = v, arcs[i], t == w
 			stack = append(stack, w)
 		}
 	}
-	s.orderBuf, s.stackBuf = order, stack
-	s.setThreads(order)
+	return order, stack
 }
 
-// setForestTree sets the tree to the forest (undirected adjacency fstart,
-// fadj over the nodes but R) with each part hung from R by the artificial
-// arc of its part root (isRoot, one node per part): the tree setTree
-// builds from the forest's arcs followed by those artificial arcs in node
-// order, without listing them. O(|V|).
-func (s *simplex) setForestTree(forest, fstart, fadj []int32, isRoot func(int32) bool) {
+// setForestTree sets the tree to the forest (g: its adjacency over the
+// nodes but R) with each part hung from R by the artificial arc of its
+// part root (isRoot, one node per part): the tree setTree builds from the
+// forest's arcs followed by those artificial arcs in node order, without
+// listing them. O(|V|).
+func (s *simplex) setForestTree(forest []int32, g *adjacency, isRoot func(int32) bool) {
 	r := s.root
-	nn := int32(s.nNodes)
 	for _, a := range forest {
 		s.state[a] = stateTree
 	}
-	order := append(s.orderBuf[:0], r)
-	stack := s.stackBuf[:0]
-	for v0 := int32(0); v0 < nn; v0++ {
-		if !isRoot(v0) {
+	order, stack := append(s.orderBuf[:0], r), s.stackBuf[:0]
+	for v := int32(0); v < int32(s.nNodes); v++ {
+		if !isRoot(v) {
 			continue
 		}
-		a := int32(s.artStart) + v0
+		a := int32(s.artStart) + v
 		s.state[a] = stateTree
 		t, _ := s.ends(a)
-		s.parent[v0], s.pred[v0], s.up[v0] = r, a, t == v0
-		stack = append(stack, v0)
-		for len(stack) > 0 {
-			v := stack[len(stack)-1]
-			stack = stack[:len(stack)-1]
-			order = append(order, v)
-			pv := s.parent[v]
-			// Push children in reverse so they are visited in arc order.
-			for i := fstart[v+1] - 1; i >= fstart[v]; i-- {
-				e := fadj[i]
-				t, h := s.ends(e)
-				w := t
-				if w == v {
-					w = h
-				}
-				if w == pv {
-					continue // (a forest has no parallel arcs)
-				}
-				s.parent[w], s.pred[w], s.up[w] = v, e, t == w
-				stack = append(stack, w)
-			}
-		}
+		s.parent[v], s.pred[v], s.up[v] = r, a, t == v
+		order, stack = s.walk(order, stack, v, forest, g)
 	}
 	s.orderBuf, s.stackBuf = order, stack
 	s.setThreads(order)
@@ -3142,47 +3106,55 @@ func (s *simplex) treeDone() {
 	}
 }
 
-// undirected returns the arcs as a compressed undirected adjacency over
-// nodes 0..n-1: the arcs at node v are adj[start[v]:start[v+1]], each arc
-// listed at both ends. O(n + len(arcs)).
-func (s *simplex) undirected(arcs []int32, n int) (start, adj []int32) {
-	return s.undirectedInto(arcs, n, nil, nil)
+// adjacency is a compressed undirected adjacency of a list of arcs over
+// nodes 0..n-1: the arcs at node v are listed at pos[start[v]:start[v+1]]
+// by their position in the list (each arc at both ends, in list order),
+// and the ends of the list's i-th arc are ends[2i] (tail) and ends[2i+1]
+// (head), read once from the arc arrays (tree and forest arcs lie anywhere
+// in them).
+type adjacency struct {
+	start, pos, ends []int32
 }
 
-// undirectedInto is undirected reusing the arrays start and adj when they
-// are large enough.
-func (s *simplex) undirectedInto(arcs []int32, n int, start, adj []int32) ([]int32, []int32) {
-	if cap(start) >= n+1 {
-		start = start[:n+1]
-		clear(start)
-	} else {
-		start = make([]int32, n+1)
-	}
-	for _, a := range arcs {
+// build makes g the adjacency of arcs over nodes 0..n-1, reusing g's
+// arrays when they are large enough. O(n + len(arcs)).
+func (g *adjacency) build(s *simplex, arcs []int32, n int) {
+	ends := slices.Grow(g.ends[:0], 2*len(arcs))[:2*len(arcs)]
+	start := slices.Grow(g.start[:0], n+1)[:n+1]
+	clear(start)
+	for i, a := range arcs {
 		t, h := s.ends(a)
+		ends[2*i], ends[2*i+1] = t, h
 		start[t+1]++
 		start[h+1]++
 	}
 	for v := 0; v < n; v++ {
 		start[v+1] += start[v]
 	}
-	if k := int(start[n]); cap(adj) >= k {
-		adj = adj[:k]
-	} else {
-		adj = make([]int32, k)
-	}
-	// Fill each node's range from its end backwards; start[v+1] ends at
-	// start[v].
+	pos := slices.Grow(g.pos[:0], int(start[n]))[:start[n]]
+	// Fill each node's range from its end backwards (start[v+1] ends
+	// there), so that each range keeps list order.
 	for i := len(arcs) - 1; i >= 0; i-- {
-		a := arcs[i]
-		t, h := s.ends(a)
+		t, h := ends[2*i], ends[2*i+1]
 		start[t+1]--
-		adj[start[t+1]] = a
+		pos[start[t+1]] = int32(i)
 		start[h+1]--
-		adj[start[h+1]] = a
+		pos[start[h+1]] = int32(i)
 	}
 	// Now start[v+1] is where v's arcs begin: shift back.
 	copy(start[:n], start[1:])
-	start[n] = int32(len(adj))
-	return start, adj
+	start[n] = int32(len(pos))
+	g.start, g.pos, g.ends = start, pos, ends
+}
+
+// undirected returns the arcs as a compressed undirected adjacency over
+// nodes 0..n-1 by arc: the arcs at node v are adj[start[v]:start[v+1]],
+// each arc listed at both ends. O(n + len(arcs)).
+func (s *simplex) undirected(arcs []int32, n int) (start, adj []int32) {
+	var g adjacency
+	g.build(s, arcs, n)
+	for j, i := range g.pos {
+		g.pos[j] = arcs[i]
+	}
+	return g.start, g.pos
 }

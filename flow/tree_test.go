@@ -24,13 +24,14 @@ func randomLanes(rng *rand.Rand, nv, m int) *Network {
 	return n
 }
 
-// TestUndirectedInto compares the compressed adjacency, built into fresh
-// and into reused arrays, with a direct listing: node v's arcs are those
-// with an end at v in list order, a self-loop twice. (Definition of the
-// structure; no outside source needed.)
-func TestUndirectedInto(t *testing.T) {
+// TestAdjacency compares the compressed adjacency, by position (built
+// into reused arrays) and by arc (undirected), with a direct listing:
+// node v's arcs are those with an end at v in list order, a self-loop
+// twice; and each position's cached ends with the arc's. (Definition of
+// the structure; no outside source needed.)
+func TestAdjacency(t *testing.T) {
 	rng := rand.New(rand.NewPCG(7, 1))
-	var start, adj []int32
+	var g adjacency
 	for trial := range 200 {
 		nv := 1 + rng.IntN(12)
 		n := randomLanes(rng, nv, rng.IntN(30))
@@ -46,8 +47,13 @@ func TestUndirectedInto(t *testing.T) {
 		}
 		rng.Shuffle(len(arcs), func(i, j int) { arcs[i], arcs[j] = arcs[j], arcs[i] })
 		nt := s.nNodes + 1
-		start, adj = s.undirectedInto(arcs, nt, start, adj)
+		g.build(s, arcs, nt)
 		fs, fa := s.undirected(arcs, nt)
+		for i, a := range arcs {
+			if tl, hd := s.ends(a); g.ends[2*i] != tl || g.ends[2*i+1] != hd {
+				t.Fatalf("trial %d: ends of position %d are %d, %d; arc %d runs %d->%d", trial, i, g.ends[2*i], g.ends[2*i+1], a, tl, hd)
+			}
+		}
 		for v := range nt {
 			var want []int32
 			for _, a := range arcs {
@@ -59,15 +65,19 @@ func TestUndirectedInto(t *testing.T) {
 					want = append(want, a)
 				}
 			}
-			if got := adj[start[v]:start[v+1]]; !slices.Equal(got, want) {
-				t.Fatalf("trial %d node %d: reused arrays give %v, want %v", trial, v, got, want)
+			var got []int32
+			for _, i := range g.pos[g.start[v]:g.start[v+1]] {
+				got = append(got, arcs[i])
+			}
+			if !slices.Equal(got, want) {
+				t.Fatalf("trial %d node %d: positions give arcs %v, want %v", trial, v, got, want)
 			}
 			if got := fa[fs[v]:fs[v+1]]; !slices.Equal(got, want) {
-				t.Fatalf("trial %d node %d: fresh arrays give %v, want %v", trial, v, got, want)
+				t.Fatalf("trial %d node %d: undirected gives %v, want %v", trial, v, got, want)
 			}
 		}
-		if len(start) != nt+1 || int(start[nt]) != len(adj) || len(adj) != 2*len(arcs) {
-			t.Fatalf("trial %d: %d starts, end %d, %d entries for %d arcs", trial, len(start), start[nt], len(adj), len(arcs))
+		if len(g.start) != nt+1 || int(g.start[nt]) != len(g.pos) || len(g.pos) != 2*len(arcs) || len(fs) != nt+1 || len(fa) != len(g.pos) {
+			t.Fatalf("trial %d: %d starts, end %d, %d entries for %d arcs", trial, len(g.start), g.start[nt], len(g.pos), len(arcs))
 		}
 	}
 }
@@ -106,8 +116,9 @@ func TestSetForestTree(t *testing.T) {
 			}
 		}
 		isRoot := func(v int32) bool { return find(v) == v }
-		fstart, fadj := a.undirected(forest, nn)
-		a.setForestTree(forest, fstart, fadj, isRoot)
+		var g adjacency
+		g.build(a, forest, nn)
+		a.setForestTree(forest, &g, isRoot)
 		tree := slices.Clone(forest)
 		for v := int32(0); v < int32(nn); v++ {
 			if isRoot(v) {
@@ -129,7 +140,49 @@ func TestSetForestTree(t *testing.T) {
 		if err := checkTree(a); err != nil {
 			t.Fatalf("trial %d: %v", trial, err)
 		}
+		// Both share the walk: compare with a plain recursive preorder.
+		wantParent, wantOrder := naivePreorder(a, tree)
+		for v := range wantParent {
+			if v != int(a.root) && a.parent[v] != wantParent[v] {
+				t.Fatalf("trial %d: parent of %d is %d, want %d", trial, v, a.parent[v], wantParent[v])
+			}
+		}
+		for i, v := range wantOrder {
+			if got := a.thread[v]; got != wantOrder[(i+1)%len(wantOrder)] {
+				t.Fatalf("trial %d: thread[%d] = %d, want %d", trial, v, got, wantOrder[(i+1)%len(wantOrder)])
+			}
+		}
 	}
+}
+
+// naivePreorder returns each node's parent and the preorder of a
+// depth-first search from R over the tree's arcs, each node's arcs taken
+// in list order (the order setTree documents), by plain recursion over
+// the whole list. O(|V|·len(tree)).
+func naivePreorder(s *simplex, tree []int32) (parent, order []int32) {
+	parent = make([]int32, s.nNodes+1)
+	seen := make([]bool, s.nNodes+1)
+	var visit func(v int32)
+	visit = func(v int32) {
+		seen[v] = true
+		order = append(order, v)
+		for _, a := range tree {
+			tl, hd := s.ends(a)
+			w := int32(-1)
+			switch v {
+			case tl:
+				w = hd
+			case hd:
+				w = tl
+			}
+			if w >= 0 && !seen[w] {
+				parent[w] = v
+				visit(w)
+			}
+		}
+	}
+	visit(s.root)
+	return parent, order
 }
 
 // checkTree checks the tree arrays against each other: the thread visits
