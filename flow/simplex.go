@@ -2122,10 +2122,10 @@ func (s *simplex) pivotFree(a int32) (bool, error) {
 }
 
 // forestParts returns each node's part of the forest (g: its adjacency),
-// named by its smallest node, and the potentials
-// within parts: reduced cost 0 on forest arcs, 0 at each part's smallest
-// node; all zero (no guidance and no overflow risk) when potentials need
-// checked arithmetic. O(|V|).
+// named by its smallest node, and the potentials within parts: reduced
+// cost 0 on forest arcs, 0 at each part's smallest node; all zero (no
+// guidance and no overflow risk) when potentials need checked arithmetic.
+// O(|V|).
 func (s *simplex) forestParts(forest []int32, g *adjacency) (comp []int32, rho []int64) {
 	nn := s.nNodes
 	comp = make([]int32, nn)
