@@ -2,7 +2,7 @@ package flow
 
 import (
 	"math"
-	"slices"
+	"math/bits"
 )
 
 // A warm start on a dense network sifts: it solves the network restricted
@@ -78,18 +78,21 @@ func (s *simplex) sift(x []int64) (ok, proved bool, err error) {
 	for _, a := range lanes {
 		mark(a)
 	}
-	cheap := make([]int32, 0, 2*nv)
+	// Each node's two cheapest lanes (at zero flow: none is in use), in
+	// index order without repeats, read from a bitmap in order.
+	cheap := make([]uint64, len(inC))
 	for _, b := range best {
 		for _, a := range [2]int32{b.a1, b.a2} {
 			if a >= 0 {
-				cheap = append(cheap, a)
+				cheap[a>>6] |= 1 << (a & 63)
 			}
 		}
 	}
-	slices.Sort(cheap)
-	for _, a := range slices.Compact(cheap) {
-		mark(a)
-		lanes = append(lanes, a)
+	for w, word := range cheap {
+		inC[w] |= word
+		for ; word != 0; word &= word - 1 {
+			lanes = append(lanes, int32(w<<6+bits.TrailingZeros64(word)))
+		}
 	}
 
 	// Round 0: solve the restricted network from the plan.
