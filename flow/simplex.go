@@ -328,14 +328,16 @@ func (s *simplex) costOf(a int32) int64 {
 // lanes (as n.Validate) and the plan, sets the flows, the plan's cost and
 // the lanes strictly between their bounds (free), and counts the lanes at
 // a bound per node. The free lanes, in lane order while they close no
-// cycle, form a forest; a free lane closing a cycle is pivoted in at once
-// (in a tree of the forest's parts hung from R), which cancels the cycle.
-// A second pass finds the lanes at a bound inside a part of the forest
-// whose reduced cost, from the forest alone, has the wrong sign: each
-// closes a cycle of negative cost with the forest, and they are pivoted
-// in the same way, most violating first. That changes the forest; while
-// one pass then finds at least minInsideViol such lanes, they are
-// cancelled again (up to maxInsideRounds rounds). A pass then lists the
+// cycle, form a forest. A second pass finds the lanes at a bound inside a
+// part of the forest whose reduced cost, from the forest alone, has the
+// wrong sign: each closes a cycle of negative cost with the forest. In a
+// tree of the forest's parts hung from R, the free lanes that close a
+// cycle are pivoted in (towards lower cost), then those lanes, most
+// violating first, which cancels the cycles. That changes the forest;
+// while free lanes still close cycles or one pass finds at least
+// minInsideViol lanes with the wrong sign, they are cancelled again (up to
+// maxInsideRounds rounds; free lanes left then are pivoted in after the
+// search). A pass then lists the
 // lanes at a bound between parts under the part their spare direction
 // leads to (zero flow: the head's; full: the tail's), each with the part
 // at its other end and the offset between the two parts that gives it
@@ -1970,14 +1972,14 @@ func (s *simplex) warmStart(x []int64) (bool, []int32, bool, bool, error) {
 		s.setForestTree(forest, &fadj, func(v int32) bool { return find(v) == v })
 	}
 	// parts builds the forest of free lanes; when some free lanes close
-	// cycles it first cancels those (in a tree of the parts hung from R,
-	// which it leaves set: treeSet), so the parts' potentials come from a
-	// plan without cycles of free lanes (a plan moved around a few cycles
-	// from an optimum is then usually back at it). It returns each node's
-	// part and the parts' potentials.
-	parts := func() (comp []int32, rho []int64, treeSet, unb bool, err error) {
+	// cycles and cancelFree is set it first cancels those (in a tree of
+	// the parts hung from R, which it leaves set: treeSet), so the parts'
+	// potentials come from a plan without cycles of free lanes (a plan
+	// moved around a few cycles from an optimum is then usually back at
+	// it). It returns each node's part and the parts' potentials.
+	parts := func(cancelFree bool) (comp []int32, rho []int64, treeSet, unb bool, err error) {
 		makeForest()
-		if len(superbasic) > 0 {
+		if cancelFree && len(superbasic) > 0 {
 			setArtTree()
 			touched := append([]int32(nil), free...)
 			freeTry := append([]int32(nil), superbasic...)
@@ -1999,7 +2001,7 @@ func (s *simplex) warmStart(x []int64) (bool, []int32, bool, bool, error) {
 		hasTree := false  // the current tree holds the forest, potentials current
 		searched := false // and was built by a search that ran to the end
 		for {
-			comp, rho, treeSet, unb, err := parts()
+			comp, rho, treeSet, unb, err := parts(true)
 			if err != nil || unb {
 				return true, nil, false, unb, err
 			}
@@ -2037,7 +2039,7 @@ func (s *simplex) warmStart(x []int64) (bool, []int32, bool, bool, error) {
 		s.boundCounts(cnt)
 	}
 	for round := 0; ; round++ {
-		comp, rho, _, unb, err := parts()
+		comp, rho, _, unb, err := parts(false)
 		if err != nil || unb {
 			return true, nil, false, unb, err
 		}
@@ -2052,14 +2054,18 @@ func (s *simplex) warmStart(x []int64) (bool, []int32, bool, bool, error) {
 				viol = nil
 			}
 		}
-		if len(viol) > 0 {
-			// Lanes at a bound inside a part with the wrong sign of
-			// reduced cost close cycles of negative cost with the
-			// forest: cancel them in the forest (each part hung from R)
-			// and start again.
+		if len(viol) > 0 || round < maxInsideRounds && len(superbasic) > 0 {
+			// Free lanes left out of the forest close cycles with it, and
+			// lanes at a bound inside a part with the wrong sign of
+			// reduced cost close cycles of negative cost: cancel them in
+			// the forest (each part hung from R; the free lanes first, in
+			// the direction that lowers the cost, as parts does) and start
+			// again. (One tree for both saves a tree and a forest per
+			// repair.)
 			setArtTree()
 			touched := append(append([]int32(nil), free...), viol...)
-			if unb, err := cancel(nil, viol, touched); err != nil || unb {
+			freeTry := append([]int32(nil), superbasic...)
+			if unb, err := cancel(freeTry, viol, touched); err != nil || unb {
 				return true, nil, false, unb, err
 			}
 			continue
