@@ -20,3 +20,9 @@ func Swept(sol *Solution) bool { return sol.swept }
 func SolveSweeping(n *Network, start []int64) (*Solution, error) {
 	return Solve(n, SolveOptions{Start: start, sweepAlways: true})
 }
+
+// SolveWithoutRounds is Solve from start with the warm start's rounds of
+// cancelling before its search by lists skipped.
+func SolveWithoutRounds(n *Network, start []int64) (*Solution, error) {
+	return Solve(n, SolveOptions{Start: start, noRounds: true})
+}

@@ -82,6 +82,11 @@ type SolveOptions struct {
 	// sweepAlways searches by sweeps whenever a warm start does not sift
 	// and the arithmetic allows, whatever the network's size (tests).
 	sweepAlways bool
+	// noRounds skips the warm start's rounds of cancelling before its
+	// search by lists (tests: the search and block search must cope with
+	// free lanes closing cycles and lanes with the wrong sign inside
+	// parts, and the free lanes left must be pivoted in).
+	noRounds bool
 }
 
 // Solution is the result of Solve.
@@ -241,6 +246,7 @@ type simplex struct {
 
 	keep        bool // SolveOptions.Keep
 	sweepAlways bool // SolveOptions.sweepAlways
+	noRounds    bool // SolveOptions.noRounds
 	swept       bool // the warm start searched by sweeps
 }
 
@@ -434,7 +440,7 @@ func Solve(n *Network, opt SolveOptions) (*Solution, error) {
 	}
 	s.progress, s.placing = opt.Progress, opt.Placing
 	s.keep = opt.Keep
-	s.sweepAlways = opt.sweepAlways
+	s.sweepAlways, s.noRounds = opt.sweepAlways, opt.noRounds
 	sol := &Solution{}
 
 	warm, proved := false, false
@@ -1956,8 +1962,10 @@ func (s *simplex) warmStart(x []int64) (bool, []int32, bool, bool, error) {
 	}
 	// cancelInTree pivots the arcs of try into the current tree (see
 	// cancel; the tree arcs that are not artificial may change flow).
+	// The free lanes outside the tree (superbasic) are touched too, so
+	// that they stay in free.
 	cancelInTree := func(try []int32) (bool, error) {
-		touched := append([]int32(nil), try...)
+		touched := append(append([]int32(nil), try...), superbasic...)
 		for v := 0; v < nn; v++ {
 			if a := s.pred[v]; int(a) < s.artStart {
 				touched = append(touched, a)
@@ -2038,13 +2046,17 @@ func (s *simplex) warmStart(x []int64) (bool, []int32, bool, bool, error) {
 	if dense {
 		s.boundCounts(cnt)
 	}
+	insideRounds := maxInsideRounds
+	if s.noRounds {
+		insideRounds = 0
+	}
 	for round := 0; ; round++ {
 		comp, rho, _, unb, err := parts(false)
 		if err != nil || unb {
 			return true, nil, false, unb, err
 		}
 		var viol []int32
-		if round < maxInsideRounds {
+		if round < insideRounds {
 			// Cancelling changes the forest, and with it the lanes
 			// inside parts: more of them may now have the wrong sign.
 			// Many such lanes make the search refuse many more (the
@@ -2054,7 +2066,7 @@ func (s *simplex) warmStart(x []int64) (bool, []int32, bool, bool, error) {
 				viol = nil
 			}
 		}
-		if len(viol) > 0 || round < maxInsideRounds && len(superbasic) > 0 {
+		if len(viol) > 0 || round < insideRounds && len(superbasic) > 0 {
 			// Free lanes left out of the forest close cycles with it, and
 			// lanes at a bound inside a part with the wrong sign of
 			// reduced cost close cycles of negative cost: cancel them in

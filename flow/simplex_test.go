@@ -1303,6 +1303,18 @@ func TestSolveRepairSpread(t *testing.T) {
 	}
 }
 
+// TestSolveNoRoundsOracle skips the warm start's rounds of cancelling
+// before its search by lists (an optimisation: the search refuses what
+// they would have cancelled, free lanes left out of the forest are
+// pivoted in after it, and block search finishes) on small random
+// networks, and checks each warm solve against gonum's LP simplex
+// (internal/oracle) and the cold solve, as TestSolveSweepOracle does.
+func TestSolveNoRoundsOracle(t *testing.T) {
+	warmOracle(t, 3, "warm started", flow.SolveWithoutRounds, func(sol *flow.Solution) bool { return sol.WarmStarted }, func(o *randnet.Options) {
+		o.Infeasible = false
+	})
+}
+
 // TestSolveSweepOracle forces the warm start's search by sweeps (which
 // Solve keeps for dense networks of sweepMinLanes lanes and more) on small
 // random networks, with excess supply, lane minimums, parallel lanes and
