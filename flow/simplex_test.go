@@ -1251,6 +1251,78 @@ func TestSolveLargeRates(t *testing.T) {
 	}
 }
 
+// TestSolveLargeRatesWarm warm-starts the networks of TestSolveLargeRates,
+// with rates scaled so that the solver's sums need overflow checks, from
+// the unscaled optimum and from a perturbation of it (scaling every rate
+// by one factor keeps the optimal plans): by default, without the
+// cancelling rounds and with the search by sweeps forced (which the
+// arithmetic then refuses, so the dense network's lists are counted
+// apart). Each must give the same status as the cold solve, a cost of
+// the factor times the unscaled optimum, and a certificate the independent
+// checker accepts; an overflow error is allowed, a wrong answer is not.
+func TestSolveLargeRatesWarm(t *testing.T) {
+	rng := rand.New(rand.NewPCG(77, 2))
+	solves, overflow := 0, 0
+	for i := 0; i < 300; i++ {
+		n := randnet.Random(rng)
+		sol, err := flow.Solve(n, flow.SolveOptions{})
+		if err != nil {
+			t.Fatal(err)
+		}
+		var maxRate int64
+		for _, r := range n.Rate {
+			maxRate = max(maxRate, r, -r)
+		}
+		if maxRate == 0 || sol.Status != flow.Optimal {
+			continue
+		}
+		// (As TestSolveLargeRates: |V|·maxRate no longer fits.)
+		f := int64(math.MaxInt64/4) / maxRate
+		if i%2 == 1 {
+			f = int64(math.MaxInt64/64) / maxRate
+		}
+		bn := *n
+		bn.Rate = make([]int64, len(n.Rate))
+		for a, r := range n.Rate {
+			bn.Rate[a] = r * f
+		}
+		want := new(big.Int).Mul(sol.Cost.Big(), new(big.Int).SetInt64(f))
+		starts := [][]int64{sol.Flow}
+		if y := randnet.PerturbedPlan(rng, n, sol.Flow); certcheck.Feasible(n, y) == nil {
+			starts = append(starts, y)
+		}
+		for j, y := range starts {
+			for k, solve := range []func(*flow.Network, []int64) (*flow.Solution, error){
+				func(n *flow.Network, y []int64) (*flow.Solution, error) {
+					return flow.Solve(n, flow.SolveOptions{Start: y})
+				},
+				flow.SolveWithoutRounds, flow.SolveSweeping,
+			} {
+				w, err := solve(&bn, y)
+				if errors.Is(err, flow.ErrOverflow) {
+					overflow++
+					continue
+				}
+				if err != nil {
+					t.Fatalf("case %d, start %d, way %d: %v", i, j, k, err)
+				}
+				solves++
+				if !w.WarmStarted {
+					t.Fatalf("case %d, start %d, way %d: not warm started", i, j, k)
+				}
+				checkOptimal(t, &bn, w)
+				if w.Cost.Big().Cmp(want) != 0 {
+					t.Fatalf("case %d, start %d, way %d: cost %s, want %s", i, j, k, w.Cost.Big(), want)
+				}
+			}
+		}
+	}
+	t.Logf("%d warm solves with large rates, %d overflow", solves, overflow)
+	if solves < 300 {
+		t.Errorf("only %d warm solves with large rates", solves)
+	}
+}
+
 // TestSolveSiftOracle checks the warm start by sifting (forced on small
 // networks through flow.SolveSifting; Solve itself sifts only on dense
 // networks of at least 2^15 lanes) against the gonum LP oracle on 600
@@ -1300,6 +1372,35 @@ func TestSolveRepairSpread(t *testing.T) {
 	if med > sol.Pivots/25 || total > sol.Pivots*int64(len(pivots))/25 {
 		t.Errorf("repairs: median %d, total %d pivots; want at most %d and %d (a twenty-fifth of the cold solve's %d)",
 			med, total, sol.Pivots/25, sol.Pivots*int64(len(pivots))/25, sol.Pivots)
+	}
+}
+
+// TestSolveRepairHeavy repairs plans moved around many cycles (100 to
+// 400, with excess supply in half the cases), so that the warm start's
+// rounds of cancelling find more lanes than they pick one by one
+// (maxPicks) and hand the rest over in order: each repair must reach the
+// cold optimum with a certificate the independent checker accepts.
+func TestSolveRepairHeavy(t *testing.T) {
+	for i, k := range []int{100, 200, 400} {
+		n := netgen.General(uint64(60+i), 1500, 12000, 80, 80, 0.3, 100)
+		if i%2 == 1 {
+			n = withExcess(n, 40)
+		}
+		sol := solveOptimal(t, n)
+		for seed := uint64(1); seed <= 3; seed++ {
+			y := netgen.Perturb(seed, n, sol.Flow, sol.InTree, k)
+			w, err := flow.Solve(n, flow.SolveOptions{Start: y})
+			if err != nil {
+				t.Fatal(err)
+			}
+			if !w.WarmStarted {
+				t.Fatalf("%d cycles, seed %d: not warm started", k, seed)
+			}
+			checkOptimal(t, n, w)
+			if w.Cost.Cmp(sol.Cost) != 0 {
+				t.Fatalf("%d cycles, seed %d: cost %s, cold %s", k, seed, w.Cost.Format(0), sol.Cost.Format(0))
+			}
+		}
 	}
 }
 
