@@ -1,7 +1,6 @@
 package netgen
 
 import (
-	"bytes"
 	"reflect"
 	"testing"
 
@@ -63,28 +62,5 @@ func TestGenerators(t *testing.T) {
 			}
 			t.Logf("%d lanes: cold %d pivots, repair %d pivots", len(n.Tail), sol.Pivots, w.Pivots)
 		})
-	}
-}
-
-func TestWriteDIMACS(t *testing.T) {
-	n := General(5, 50, 300, 5, 5, 0.5, 100)
-	var buf bytes.Buffer
-	if err := WriteDIMACS(&buf, n); err != nil {
-		t.Fatal(err)
-	}
-	back, err := flow.ReadDIMACS(bytes.NewReader(buf.Bytes()), "gen.min")
-	if err != nil {
-		t.Fatal(err)
-	}
-	a, err := flow.Solve(n, flow.SolveOptions{})
-	if err != nil {
-		t.Fatal(err)
-	}
-	b, err := flow.Solve(back, flow.SolveOptions{})
-	if err != nil {
-		t.Fatal(err)
-	}
-	if a.Status != flow.Optimal || b.Status != flow.Optimal || a.Cost.Cmp(b.Cost) != 0 {
-		t.Fatalf("written network solves to %v %s, original %v %s", b.Status, b.Cost.Format(0), a.Status, a.Cost.Format(0))
 	}
 }
