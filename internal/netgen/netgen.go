@@ -325,4 +325,3 @@ func Perturb(seed uint64, n *flow.Network, x []int64, inTree []bool, k int) []in
 	}
 	return y
 }
-
