@@ -1209,23 +1209,11 @@ func TestSolveLargeRates(t *testing.T) {
 		if err != nil {
 			t.Fatal(err)
 		}
-		var maxRate int64
-		for _, r := range n.Rate {
-			maxRate = max(maxRate, r, -r)
-		}
-		if maxRate == 0 {
+		bn, f, ok := scaleRates(n, i%2 == 1)
+		if !ok {
 			continue
 		}
-		f := int64(math.MaxInt64/4) / maxRate
-		if i%2 == 1 {
-			f = int64(math.MaxInt64/64) / maxRate
-		}
-		bn := *n
-		bn.Rate = make([]int64, len(n.Rate))
-		for a, r := range n.Rate {
-			bn.Rate[a] = r * f
-		}
-		bs, err := flow.Solve(&bn, flow.SolveOptions{})
+		bs, err := flow.Solve(bn, flow.SolveOptions{})
 		if errors.Is(err, flow.ErrOverflow) {
 			overflow++
 			continue
@@ -1238,7 +1226,7 @@ func TestSolveLargeRates(t *testing.T) {
 		}
 		if bs.Status == flow.Optimal {
 			solved++
-			checkOptimal(t, &bn, bs)
+			checkOptimal(t, bn, bs)
 			want := new(big.Int).Mul(sol.Cost.Big(), new(big.Int).SetInt64(f))
 			if bs.Cost.Big().Cmp(want) != 0 {
 				t.Fatalf("case %d: cost %s, want %s", i, bs.Cost.Big(), want)
@@ -1249,6 +1237,30 @@ func TestSolveLargeRates(t *testing.T) {
 	if solved < 100 {
 		t.Errorf("only %d large-rate cases solved", solved)
 	}
+}
+
+// scaleRates returns a copy of n with every rate multiplied by f, chosen
+// so that the largest |rate| becomes about MaxInt64/4 (or MaxInt64/64
+// when smaller is set): |V|·maxRate then no longer fits int64. ok is
+// false when every rate is 0.
+func scaleRates(n *flow.Network, smaller bool) (bn *flow.Network, f int64, ok bool) {
+	var maxRate int64
+	for _, r := range n.Rate {
+		maxRate = max(maxRate, r, -r)
+	}
+	if maxRate == 0 {
+		return nil, 0, false
+	}
+	f = int64(math.MaxInt64/4) / maxRate
+	if smaller {
+		f = int64(math.MaxInt64/64) / maxRate
+	}
+	c := *n
+	c.Rate = make([]int64, len(n.Rate))
+	for a, r := range n.Rate {
+		c.Rate[a] = r * f
+	}
+	return &c, f, true
 }
 
 // TestSolveLargeRatesWarm warm-starts the networks of TestSolveLargeRates,
@@ -1269,22 +1281,9 @@ func TestSolveLargeRatesWarm(t *testing.T) {
 		if err != nil {
 			t.Fatal(err)
 		}
-		var maxRate int64
-		for _, r := range n.Rate {
-			maxRate = max(maxRate, r, -r)
-		}
-		if maxRate == 0 || sol.Status != flow.Optimal {
+		bn, f, ok := scaleRates(n, i%2 == 1)
+		if !ok || sol.Status != flow.Optimal {
 			continue
-		}
-		// (As TestSolveLargeRates: |V|·maxRate no longer fits.)
-		f := int64(math.MaxInt64/4) / maxRate
-		if i%2 == 1 {
-			f = int64(math.MaxInt64/64) / maxRate
-		}
-		bn := *n
-		bn.Rate = make([]int64, len(n.Rate))
-		for a, r := range n.Rate {
-			bn.Rate[a] = r * f
 		}
 		want := new(big.Int).Mul(sol.Cost.Big(), new(big.Int).SetInt64(f))
 		starts := [][]int64{sol.Flow}
@@ -1298,7 +1297,7 @@ func TestSolveLargeRatesWarm(t *testing.T) {
 				},
 				flow.SolveWithoutRounds, flow.SolveSweeping,
 			} {
-				w, err := solve(&bn, y)
+				w, err := solve(bn, y)
 				if errors.Is(err, flow.ErrOverflow) {
 					overflow++
 					continue
@@ -1310,7 +1309,7 @@ func TestSolveLargeRatesWarm(t *testing.T) {
 				if !w.WarmStarted {
 					t.Fatalf("case %d, start %d, way %d: not warm started", i, j, k)
 				}
-				checkOptimal(t, &bn, w)
+				checkOptimal(t, bn, w)
 				if w.Cost.Big().Cmp(want) != 0 {
 					t.Fatalf("case %d, start %d, way %d: cost %s, want %s", i, j, k, w.Cost.Big(), want)
 				}
