@@ -30,8 +30,8 @@ type benchCase struct {
 // "repair10" is seed 11 (as in earlier measurements), "repair10sN" seed N.
 // Which cycles a seed moves depends on the optimal tree the cold solve
 // found, so a change of the solver changes the instances; three seeds show
-// how much that matters. LANECERT_BENCH_SEEDS
-// replaces them (a comma-separated list of seeds or ranges, "11-22").
+// how much that matters. LANECERT_BENCH_SEEDS replaces them (a
+// comma-separated list of seeds or ranges, "11-22").
 var repairSeeds = benchSeeds(os.Getenv("LANECERT_BENCH_SEEDS"), []uint64{11, 12, 13})
 
 // benchSeeds parses a list such as "11,14-16"; an empty or malformed list
