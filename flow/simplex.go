@@ -3038,13 +3038,18 @@ func (s *simplex) setTree(tree []int32) {
 // walk appends to order the nodes of the tree below v (v first) in the
 // preorder of a depth-first search over g, the adjacency of arcs, taking
 // each node's arcs in list order, and sets their parent, pred and up; v's
-// parent must be set. stack is scratch. O(size of the subtree).
+// parent must be set. stack is scratch. O(size of the subtree). Arcs that
+// close a cycle would make the walk endless: it panics (an internal error)
+// once order holds more entries than there are nodes.
 func (s *simplex) walk(order, stack []int32, v int32, arcs []int32, g *adjacency) ([]int32, []int32) {
 	start, pos, ends := g.start, g.pos, g.ends
 	stack = append(stack, v)
 	for len(stack) > 0 {
 		v := stack[len(stack)-1]
 		stack = stack[:len(stack)-1]
+		if len(order) == len(s.parent) {
+			panic("flow: internal error: the arcs of a tree close a cycle")
+		}
 		order = append(order, v)
 		pv := s.parent[v]
 		// Push children in reverse so they are visited in arc order.

@@ -155,6 +155,26 @@ func TestSetForestTree(t *testing.T) {
 	}
 }
 
+// TestSetTreeCycle gives setTree arcs that close a cycle (a triangle
+// among three nodes, and the artificial arcs of all three): the walk must
+// stop with a panic instead of walking round the cycle without end.
+func TestSetTreeCycle(t *testing.T) {
+	n := &Network{Nodes: []string{"a", "b", "c"}, Supply: make([]int64, 3),
+		Tail: []NodeID{0, 1, 2}, Head: []NodeID{1, 2, 0}, Rate: []int64{1, 1, 1},
+		Lower: []int64{0, 0, 0}, Upper: []int64{5, 5, 5}}
+	s, err := newSimplex(n, false, 0)
+	if err != nil {
+		t.Fatal(err)
+	}
+	tree := []int32{0, 1, 2, int32(s.artStart)}
+	defer func() {
+		if r := recover(); r == nil {
+			t.Fatal("setTree accepted arcs that close a cycle")
+		}
+	}()
+	s.setTree(tree)
+}
+
 // naivePreorder returns each node's parent and the preorder of a
 // depth-first search from R over the tree's arcs, each node's arcs taken
 // in list order (the order setTree documents), by plain recursion over
