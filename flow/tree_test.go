@@ -4,6 +4,7 @@ import (
 	"fmt"
 	"math/rand/v2"
 	"slices"
+	"strings"
 	"testing"
 )
 
@@ -156,8 +157,9 @@ func TestSetForestTree(t *testing.T) {
 }
 
 // TestSetTreeCycle gives setTree arcs that close a cycle (a triangle
-// among three nodes, and the artificial arcs of all three): the walk must
-// stop with a panic instead of walking round the cycle without end.
+// among three nodes, and the artificial arc of the first): the walk must
+// stop with its internal-error panic instead of walking round the cycle
+// without end.
 func TestSetTreeCycle(t *testing.T) {
 	n := &Network{Nodes: []string{"a", "b", "c"}, Supply: make([]int64, 3),
 		Tail: []NodeID{0, 1, 2}, Head: []NodeID{1, 2, 0}, Rate: []int64{1, 1, 1},
@@ -168,8 +170,12 @@ func TestSetTreeCycle(t *testing.T) {
 	}
 	tree := []int32{0, 1, 2, int32(s.artStart)}
 	defer func() {
-		if r := recover(); r == nil {
+		r := recover()
+		if r == nil {
 			t.Fatal("setTree accepted arcs that close a cycle")
+		}
+		if msg, _ := r.(string); !strings.Contains(msg, "close a cycle") {
+			t.Fatalf("setTree panicked with %v, want the cycle's internal error", r)
 		}
 	}()
 	s.setTree(tree)
