@@ -11,6 +11,7 @@ import (
 	"lanecert/dual"
 	"lanecert/flow"
 	"lanecert/internal/certcheck"
+	"lanecert/internal/longrun"
 	"lanecert/internal/oracle"
 	"lanecert/internal/randnet"
 )
@@ -195,8 +196,8 @@ func TestPublishedPotentials(t *testing.T) {
 // plan is optimal exactly when its cost equals the LP optimum. Every
 // certificate must pass the independent checker.
 func TestRandomAgainstOracle(t *testing.T) {
-	const cases = 1500
-	rng := rand.New(rand.NewPCG(2026, 12))
+	cases := longrun.Cases(t, 1500)
+	rng := rand.New(rand.NewPCG(longrun.Seed(t, 2026), 12))
 	var optimal, notOptimal, infeasible int
 	for i := 0; i < cases; i++ {
 		n := randnet.Random(rng)

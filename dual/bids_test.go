@@ -6,6 +6,7 @@ import (
 
 	"lanecert/dual"
 	"lanecert/flow"
+	"lanecert/internal/longrun"
 	"lanecert/internal/oracle"
 	"lanecert/internal/randnet"
 )
@@ -15,9 +16,9 @@ import (
 // oracle's optimum of the extended network; a bid's break-even rate must
 // be where using it starts to pay.
 func TestBidsAgainstOracle(t *testing.T) {
-	rng := rand.New(rand.NewPCG(5, 5))
+	rng := rand.New(rand.NewPCG(longrun.Seed(t, 5), 5))
 	used := 0
-	for i := 0; i < 300; i++ {
+	for i := range longrun.Cases(t, 300) {
 		o := randnet.RandomOptions(rng)
 		o.NegativeRates, o.Infeasible = false, false
 		n := randnet.Network(rng, o)

@@ -8,6 +8,7 @@ import (
 	"lanecert/dual"
 	"lanecert/flow"
 	"lanecert/internal/certcheck"
+	"lanecert/internal/longrun"
 	"lanecert/internal/oracle"
 	"lanecert/internal/randnet"
 )
@@ -79,9 +80,9 @@ func bruteSingle(t *testing.T, n *flow.Network, cs []flow.Candidate) float64 {
 // single lane or pair does better (brute force with the LP oracle), and
 // the lower bound holds.
 func TestExtendAgainstBruteForce(t *testing.T) {
-	rng := rand.New(rand.NewPCG(3, 9))
+	rng := rand.New(rand.NewPCG(longrun.Seed(t, 3), 9))
 	fixedCases, madeFeasible, pruned := 0, 0, 0
-	for i := 0; i < 150; i++ {
+	for i := range longrun.Cases(t, 150) {
 		o := randnet.RandomOptions(rng)
 		o.NegativeRates = false
 		o.Infeasible = false
@@ -194,9 +195,9 @@ func TestExtendAgainstBruteForce(t *testing.T) {
 // plus the lane's fixed cost), whenever that network is feasible; and the
 // best single lane found while skipping lanes is the brute-force best.
 func TestSingleBounds(t *testing.T) {
-	rng := rand.New(rand.NewPCG(17, 3))
+	rng := rand.New(rand.NewPCG(longrun.Seed(t, 17), 3))
 	bounded, tight, pruned := 0, 0, 0
-	for i := 0; i < 400 && bounded < 300; i++ {
+	for i, cases, enough := 0, longrun.Cases(t, 400), longrun.Cases(t, 300); i < cases && bounded < enough; i++ {
 		o := randnet.RandomOptions(rng)
 		o.NegativeRates, o.Infeasible = false, false
 		n := randnet.Network(rng, o)

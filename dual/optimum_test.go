@@ -7,6 +7,7 @@ import (
 
 	"lanecert/dual"
 	"lanecert/flow"
+	"lanecert/internal/longrun"
 	"lanecert/internal/oracle"
 	"lanecert/internal/randnet"
 )
@@ -44,9 +45,9 @@ func extreme(t *testing.T, n *flow.Network, a int, sign int64, m int64) float64 
 // plan passes the audit as optimal, and Unique agrees with the oracle's
 // range of each lane over the optimal plans.
 func TestOptimizeAgainstOracle(t *testing.T) {
-	rng := rand.New(rand.NewPCG(7, 2026))
+	rng := rand.New(rand.NewPCG(longrun.Seed(t, 7), 2026))
 	uniqueSeen, multiSeen := 0, 0
-	for i := 0; i < 1200; i++ {
+	for i := range longrun.Cases(t, 1200) {
 		n := randnet.Random(rng)
 		res, err := oracle.MinCost(n)
 		if err != nil {

@@ -8,6 +8,7 @@ import (
 
 	"lanecert/dual"
 	"lanecert/flow"
+	"lanecert/internal/longrun"
 	"lanecert/internal/oracle"
 	"lanecert/internal/randnet"
 )
@@ -43,10 +44,10 @@ func stillOptimal(t *testing.T, n *flow.Network, y []int64, e int, rate int64) b
 // with the independent LP oracle; lanes without a limit are moved far; the
 // capacity value and node prices are checked by changing one unit.
 func TestRangesAgainstOracle(t *testing.T) {
-	rng := rand.New(rand.NewPCG(11, 4))
+	rng := rand.New(rand.NewPCG(longrun.Seed(t, 11), 4))
 	const far = 1 << 20
 	checkedLimits, degenerate := 0, 0
-	for i := 0; i < 400; i++ {
+	for i := range longrun.Cases(t, 400) {
 		o := randnet.RandomOptions(rng)
 		o.NegativeRates = false
 		o.Infeasible = false
@@ -337,9 +338,9 @@ func TestRangesPublished(t *testing.T) {
 // in TestRangesAgainstOracle), and on a few networks the node prices are
 // checked against the oracle directly.
 func TestRangesManyPieces(t *testing.T) {
-	rng := rand.New(rand.NewPCG(23, 5))
+	rng := rand.New(rand.NewPCG(longrun.Seed(t, 23), 5))
 	manyPieces := 0
-	for i := 0; i < 60; i++ {
+	for i := range longrun.Cases(t, 60) {
 		o := randnet.RandomOptions(rng)
 		o.NegativeRates = false
 		o.Infeasible = false

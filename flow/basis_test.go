@@ -9,6 +9,7 @@ import (
 
 	"lanecert/flow"
 	"lanecert/internal/certcheck"
+	"lanecert/internal/longrun"
 	"lanecert/internal/oracle"
 	"lanecert/internal/randnet"
 )
@@ -47,9 +48,9 @@ func randomExtras(rng *rand.Rand, n *flow.Network, k int, neg bool) []flow.Candi
 // (internal/certcheck) and costs what Add reports. The Basis must not change
 // between calls: the same extras asked twice give the same answer.
 func TestBasisAddRandom(t *testing.T) {
-	rng := rand.New(rand.NewPCG(20261202, 7))
+	rng := rand.New(rand.NewPCG(longrun.Seed(t, 20261202), 7))
 	tried, moved, unbounded := 0, 0, 0
-	for i := 0; i < 400; i++ {
+	for i := range longrun.Cases(t, 400) {
 		o := randnet.RandomOptions(rng)
 		n := randnet.Network(rng, o)
 		sol, err := flow.Solve(n, flow.SolveOptions{Keep: true})
@@ -244,9 +245,9 @@ func residualOf(n *flow.Network, x, held []int64) []resArc {
 // real cost of the cheapest route is the distance plus p(to) - p(from).
 // Leaving is checked against the same residual arcs.
 func TestBasisDistances(t *testing.T) {
-	rng := rand.New(rand.NewPCG(31, 4))
+	rng := rand.New(rand.NewPCG(longrun.Seed(t, 31), 4))
 	checked := 0
-	for i := 0; i < 300; i++ {
+	for i := range longrun.Cases(t, 300) {
 		o := randnet.RandomOptions(rng)
 		o.NegativeRates = i%3 == 0
 		n := randnet.Network(rng, o)

@@ -12,6 +12,7 @@ import (
 
 	"lanecert/flow"
 	"lanecert/internal/certcheck"
+	"lanecert/internal/longrun"
 	"lanecert/internal/netgen"
 	"lanecert/internal/oracle"
 	"lanecert/internal/randnet"
@@ -381,9 +382,9 @@ func cutRandom(rng *rand.Rand) *flow.Network {
 // different relaxation: nodes with a surplus after the minimums may absorb
 // flow).
 func TestFindCutRandom(t *testing.T) {
-	rng := rand.New(rand.NewPCG(20250301, 1))
+	rng := rand.New(rand.NewPCG(longrun.Seed(t, 20250301), 1))
 	var cuts, holds, nils, minimums int
-	for i := range 600 {
+	for i := range longrun.Cases(t, 600) {
 		var n *flow.Network
 		switch i % 3 {
 		case 0:

@@ -7,6 +7,8 @@ import (
 	"math/rand/v2"
 	"strings"
 	"testing"
+
+	"lanecert/internal/longrun"
 )
 
 // Every expected value in this file follows by hand from the input text:
@@ -276,8 +278,8 @@ func randInt64(r *rand.Rand) int64 {
 // value for every int64 except ±MaxInt64 (MaxInt64 is NoLimit, and parsed
 // values keep a symmetric range) and MinInt64, which give ErrOverflow.
 func TestFormatScaledRoundTrip(t *testing.T) {
-	r := rand.New(rand.NewPCG(1, 1))
-	for i := 0; i < 20000; i++ {
+	r := rand.New(rand.NewPCG(longrun.Seed(t, 1), 1))
+	for range longrun.Cases(t, 20000) {
 		v := randInt64(r)
 		p := r.IntN(19)
 		s := FormatScaled(v, p)
@@ -364,8 +366,8 @@ func TestCheckedArithmeticEdges(t *testing.T) {
 // math/big on random operands: a result is returned exactly when the exact
 // value fits, ErrOverflow otherwise.
 func TestCheckedArithmeticAgainstBig(t *testing.T) {
-	r := rand.New(rand.NewPCG(2, 1))
-	for i := 0; i < 50000; i++ {
+	r := rand.New(rand.NewPCG(longrun.Seed(t, 2), 1))
+	for range longrun.Cases(t, 50000) {
 		a, b := randInt64(r), randInt64(r)
 		ba, bb := big.NewInt(a), big.NewInt(b)
 		check := func(name string, got int64, err error, exact *big.Int, lo int64) {

@@ -11,6 +11,7 @@ import (
 
 	"lanecert/flow"
 	"lanecert/internal/certcheck"
+	"lanecert/internal/longrun"
 	"lanecert/internal/oracle"
 	"lanecert/internal/randnet"
 )
@@ -175,9 +176,9 @@ func sumAbsRates(n *flow.Network) int64 {
 // ExtendPlan. Extended networks that stay infeasible must have minimums
 // and a cut of their own.
 func TestWithShortfallRandom(t *testing.T) {
-	rng := rand.New(rand.NewPCG(20250302, 1))
+	rng := rand.New(rand.NewPCG(longrun.Seed(t, 20250302), 1))
 	var solved, fixed, still, unbounded int
-	for i := range 400 {
+	for i := range longrun.Cases(t, 400) {
 		var n *flow.Network
 		switch i % 3 {
 		case 0:
@@ -287,9 +288,9 @@ func TestWithShortfallRandom(t *testing.T) {
 // kept gives the same status, cost and number of unmet lanes as solving
 // WithShortfall's copy, and its plan is feasible for that copy.
 func TestSolvePricedShortfall(t *testing.T) {
-	rng := rand.New(rand.NewPCG(8, 21))
+	rng := rand.New(rand.NewPCG(longrun.Seed(t, 8), 21))
 	solved := 0
-	for i := 0; i < 200; i++ {
+	for i := range longrun.Cases(t, 200) {
 		o := randnet.RandomOptions(rng)
 		o.NegativeRates = false
 		n := randnet.Network(rng, o)

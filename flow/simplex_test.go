@@ -17,6 +17,7 @@ import (
 
 	"lanecert/flow"
 	"lanecert/internal/certcheck"
+	"lanecert/internal/longrun"
 	"lanecert/internal/netgen"
 	"lanecert/internal/oracle"
 	"lanecert/internal/randnet"
@@ -1102,10 +1103,10 @@ func shortfallOracle(t *testing.T, n *flow.Network) int64 {
 // seeded random networks: status, optimal cost, certificate, unbounded
 // cycle, shortfall, warm start from a feasible plan, and determinism.
 func TestSolveRandomOracle(t *testing.T) {
-	rng := rand.New(rand.NewPCG(20240601, 1))
+	rng := rand.New(rand.NewPCG(longrun.Seed(t, 20240601), 1))
 	counts := map[flow.Status]int{}
 	warmUsed := 0
-	for i := 0; i < 1500; i++ {
+	for i := range longrun.Cases(t, 1500) {
 		o := randnet.RandomOptions(rng)
 		if i%4 == 3 {
 			// More general networks with negative rates: unbounded cases.
@@ -1201,9 +1202,9 @@ func TestSolveRandomOracle(t *testing.T) {
 // computed with overflow checks. The optimal plans' costs must scale
 // exactly, or Solve must report ErrOverflow.
 func TestSolveLargeRates(t *testing.T) {
-	rng := rand.New(rand.NewPCG(77, 1))
+	rng := rand.New(rand.NewPCG(longrun.Seed(t, 77), 1))
 	solved, overflow := 0, 0
-	for i := 0; i < 400; i++ {
+	for i := range longrun.Cases(t, 400) {
 		n := randnet.Random(rng)
 		sol, err := flow.Solve(n, flow.SolveOptions{})
 		if err != nil {
@@ -1273,9 +1274,9 @@ func scaleRates(n *flow.Network, smaller bool) (bn *flow.Network, f int64, ok bo
 // the factor times the unscaled optimum, and a certificate the independent
 // checker accepts; an overflow error is allowed, a wrong answer is not.
 func TestSolveLargeRatesWarm(t *testing.T) {
-	rng := rand.New(rand.NewPCG(77, 2))
+	rng := rand.New(rand.NewPCG(longrun.Seed(t, 77), 2))
 	solves, overflow := 0, 0
-	for i := 0; i < 300; i++ {
+	for i := range longrun.Cases(t, 300) {
 		n := randnet.Random(rng)
 		sol, err := flow.Solve(n, flow.SolveOptions{})
 		if err != nil {
@@ -1437,10 +1438,10 @@ func TestSolveSweepOracle(t *testing.T) {
 // (took).
 func warmOracle(t *testing.T, stream uint64, path string, solve func(*flow.Network, []int64) (*flow.Solution, error), took func(*flow.Solution) bool, opts func(*randnet.Options)) {
 	t.Helper()
-	rng := rand.New(rand.NewPCG(20261202, stream))
+	rng := rand.New(rand.NewPCG(longrun.Seed(t, 20261202), stream))
 	counts := map[flow.Status]int{}
 	solves, taken := 0, 0
-	for i := 0; i < 600; i++ {
+	for i := range longrun.Cases(t, 600) {
 		o := randnet.RandomOptions(rng)
 		opts(&o)
 		if i%5 == 4 {

@@ -6,6 +6,8 @@ import (
 	"slices"
 	"strings"
 	"testing"
+
+	"lanecert/internal/longrun"
 )
 
 // randomLanes returns a network of nv nodes and m random lanes (self-loops
@@ -31,9 +33,9 @@ func randomLanes(rng *rand.Rand, nv, m int) *Network {
 // twice; and each position's cached ends with the arc's. (Definition of
 // the structure; no outside source needed.)
 func TestAdjacency(t *testing.T) {
-	rng := rand.New(rand.NewPCG(7, 1))
+	rng := rand.New(rand.NewPCG(longrun.Seed(t, 7), 1))
 	var g adjacency
-	for trial := range 200 {
+	for trial := range longrun.Cases(t, 200) {
 		nv := 1 + rng.IntN(12)
 		n := randomLanes(rng, nv, rng.IntN(30))
 		s, err := newSimplex(n, false, 0)
@@ -87,8 +89,8 @@ func TestAdjacency(t *testing.T) {
 // setTree given the forest's arcs followed by the artificial arcs of the
 // part roots, and that the tree is consistent (checkTree).
 func TestSetForestTree(t *testing.T) {
-	rng := rand.New(rand.NewPCG(7, 2))
-	for trial := range 300 {
+	rng := rand.New(rand.NewPCG(longrun.Seed(t, 7), 2))
+	for trial := range longrun.Cases(t, 300) {
 		nv := 1 + rng.IntN(15)
 		n := randomLanes(rng, nv, rng.IntN(40))
 		a, err := newSimplex(n, trial%3 == 0, 0)

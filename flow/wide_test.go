@@ -6,6 +6,8 @@ import (
 	"math/big"
 	"math/rand/v2"
 	"testing"
+
+	"lanecert/internal/longrun"
 )
 
 // The oracle for Wide is math/big: wideBig converts from the two words
@@ -44,8 +46,8 @@ func randWide(r *rand.Rand) Wide {
 }
 
 func TestWideAgainstBig(t *testing.T) {
-	r := rand.New(rand.NewPCG(3, 1))
-	for i := 0; i < 50000; i++ {
+	r := rand.New(rand.NewPCG(longrun.Seed(t, 3), 1))
+	for range longrun.Cases(t, 50000) {
 		a, b := randInt64(r), randInt64(r)
 		if got, want := wideBig(MulWide(a, b)), new(big.Int).Mul(big.NewInt(a), big.NewInt(b)); got.Cmp(want) != 0 {
 			t.Fatalf("MulWide(%d, %d) = %s; want %s", a, b, got, want)

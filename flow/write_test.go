@@ -6,6 +6,7 @@ import (
 	"testing"
 
 	"lanecert/flow"
+	"lanecert/internal/longrun"
 	"lanecert/internal/randnet"
 )
 
@@ -15,8 +16,8 @@ import (
 // lane, bound and rate must come back equal at the same scale. (Node
 // names are written as comments only; the reader names nodes by number.)
 func TestWriteDIMACSRoundTrip(t *testing.T) {
-	rng := rand.New(rand.NewPCG(11, 5))
-	for i := 0; i < 200; i++ {
+	rng := rand.New(rand.NewPCG(longrun.Seed(t, 11), 5))
+	for i := range longrun.Cases(t, 200) {
 		n := randnet.Network(rng, randnet.RandomOptions(rng))
 		var buf bytes.Buffer
 		if err := flow.WriteDIMACS(&buf, n); err != nil {

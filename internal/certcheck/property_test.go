@@ -8,6 +8,7 @@ import (
 
 	"lanecert/flow"
 	"lanecert/internal/certcheck"
+	"lanecert/internal/longrun"
 	"lanecert/internal/oracle"
 	"lanecert/internal/randnet"
 )
@@ -123,9 +124,9 @@ func wide(t *testing.T, b *big.Int) flow.Wide {
 // pass Cycle, and the oracle's optimum must lie below the plan's cost.
 // Random perturbations of a passing certificate must fail.
 func TestCertificatesRandom(t *testing.T) {
-	rng := rand.New(rand.NewPCG(7, 1))
+	rng := rand.New(rand.NewPCG(longrun.Seed(t, 7), 1))
 	var optimal, cycles, holdCycles int
-	for i := range 300 {
+	for i := range longrun.Cases(t, 300) {
 		o := randnet.RandomOptions(rng)
 		n := randnet.Network(rng, o)
 		x, ok := randnet.FeasiblePlan(rng, n)
