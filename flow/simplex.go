@@ -2116,12 +2116,20 @@ const (
 	minInsideViol   = 16
 )
 
-// maxRounds bounds the rounds of a warm start that cancel cycles of
-// negative cost before the first tree is kept. One round: a second one
-// (then a third search) cut the pivots but cost more than the block search
-// spends on them (the repairs of BENCHMARKS.md, third session: 0.74-0.91x
-// of the time with two rounds on general, sparse and, in the restricted
-// solves of sifting, dense networks).
+// maxRounds bounds the rounds of a warm start, counted from the first and
+// including the rounds that cancel lanes inside parts, after which the
+// lanes a search refuses are still cancelled and the search made again.
+// With 1, that happens only when the first search comes before any round
+// inside parts. A second round (then a third search) cut the pivots but
+// cost more than the block search spends on them (the repairs of
+// BENCHMARKS.md, third session: 0.74-0.91x of the time with two rounds on
+// general, sparse and, in the restricted solves of sifting, dense
+// networks). Since the rounds inside parts exist, the first search on the
+// generated general and sparse transportation networks always follows one
+// of them, so the refusals go to block search. Counting the refusal round
+// apart (one search more after the rounds inside parts) made the repairs
+// of netgen_a1e5 seed 2006 1.24x slower in all (seventh session); only the
+// seed with a pile of refusals gained.
 const maxRounds = 1
 
 // pivotFree pivots the free arc a (not in the tree) in, towards lower
