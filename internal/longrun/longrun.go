@@ -43,7 +43,7 @@ func Cases(tb testing.TB, n int) int {
 	if err != nil || k < 1 || k > maxFactor {
 		tb.Fatalf("%s=%q: want an integer from 1 to %d", CasesVar, v, maxFactor)
 	}
-	logOnce(tb)
+	logEnv(tb)
 	return n * k
 }
 
@@ -61,7 +61,7 @@ func Seed(tb testing.TB, base uint64) uint64 {
 	if err != nil {
 		tb.Fatalf("%s=%q: want an unsigned 64-bit integer", SeedVar, v)
 	}
-	logOnce(tb)
+	logEnv(tb)
 	if s == 0 {
 		return base
 	}
@@ -78,9 +78,9 @@ func mix(z uint64) uint64 {
 	return z ^ (z >> 31)
 }
 
-// logOnce logs the environment of a long run (once per call site is
-// enough: go test prints the log of a failing test only).
-func logOnce(tb testing.TB) {
+// logEnv logs the environment of a long run (go test prints the log of a
+// failing test).
+func logEnv(tb testing.TB) {
 	tb.Helper()
 	tb.Logf("long run: %s=%q %s=%q", CasesVar, os.Getenv(CasesVar), SeedVar, os.Getenv(SeedVar))
 }

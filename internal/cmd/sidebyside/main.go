@@ -23,6 +23,7 @@ package main
 
 import (
 	"bufio"
+	"bytes"
 	"cmp"
 	"errors"
 	"flag"
@@ -180,7 +181,7 @@ var pivotsField = regexp.MustCompile(`([0-9.]+) pivots`)
 // (the benchmark checks each cost against the cold optimum) is an error.
 func parseBench(outp []byte, name string) (map[string]timing, error) {
 	got := map[string]timing{}
-	sc := bufio.NewScanner(strings.NewReader(string(outp)))
+	sc := bufio.NewScanner(bytes.NewReader(outp))
 	for sc.Scan() {
 		line := sc.Text()
 		if strings.HasPrefix(line, "FAIL") || strings.HasPrefix(line, "--- FAIL") {
