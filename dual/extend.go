@@ -551,6 +551,74 @@ func (sv *setSolver) consider(t trial) trial {
 	return t
 }
 
+// flowLimit returns a quantity that some optimal plan of the fixed-charge
+// problem (n with any set of the candidates cands opened, each opened one
+// paying its fixed cost) carries on no lane more than, or flow.NoLimit
+// when the sum below overflows. With it, a candidate's fixed cost spread
+// over the most it can carry is a valid rate in the linear relaxation.
+//
+// When no rate is negative (lanes and candidates): the total supply plus
+// every minimum (lanes' and candidates'). A plan splits into paths from
+// origins, carrying at most the total supply, and cycles. A cycle with no
+// lane at its minimum can be lowered until one is, without raising the
+// cost (its rates sum to at least 0) and without opening a lane, so some
+// optimal plan has a lane at its minimum on each of its cycles, and the
+// cycles through one lane carry at most that lane's minimum. (With lane
+// minimums the total supply alone is not a limit: the minimums can force
+// more than the supply round a cycle through a candidate.)
+//
+// Otherwise: a basic optimal plan of the network with the opened lanes,
+// where a lane of the spanning tree carries at most the total supply plus
+// what the lanes outside it carry (each at its minimum or at a finite
+// capacity) plus what origins keep: twice the total supply plus every
+// minimum and every finite capacity.
+func flowLimit(n *flow.Network, cands []flow.Candidate) int64 {
+	var supply int64
+	var err error
+	for _, b := range n.Supply {
+		if b > 0 {
+			if supply, err = flow.AddChecked(supply, b); err != nil {
+				return flow.NoLimit
+			}
+		}
+	}
+	negative := false
+	for _, r := range n.Rate {
+		negative = negative || r < 0
+	}
+	for _, c := range cands {
+		negative = negative || c.Rate < 0
+	}
+	limit := supply
+	if negative {
+		if limit, err = flow.AddChecked(limit, supply); err != nil {
+			return flow.NoLimit
+		}
+	}
+	add := func(lower, upper int64) bool {
+		if limit, err = flow.AddChecked(limit, lower); err != nil {
+			return false
+		}
+		if negative && upper != flow.NoLimit {
+			if limit, err = flow.AddChecked(limit, upper); err != nil {
+				return false
+			}
+		}
+		return true
+	}
+	for a := range n.Tail {
+		if !add(n.Lower[a], n.Upper[a]) {
+			return flow.NoLimit
+		}
+	}
+	for _, c := range cands {
+		if !add(c.Lower, c.Upper) {
+			return flow.NoLimit
+		}
+	}
+	return limit
+}
+
 // pricedBasis solves n with unmet demand priced at one more than the sum of
 // all |rates| (lanes and candidates), so that every optimum leaves the least
 // possible demand unmet, and keeps its basis; unmet is the number of unmet
@@ -629,20 +697,17 @@ func (sv *setSolver) feasibleBounds(idx []int) ([]singleBound, error) {
 }
 
 // bound solves the linear relaxation of the fixed-charge problem: every
-// candidate open, its rate raised by floor(fixed / most it can carry).
+// candidate open, its rate raised by floor(fixed / most it can carry),
+// where the most is its capacity or flowLimit, the smaller (no raise when
+// neither is finite).
 func (sv *setSolver) bound() error {
 	n, x := sv.n, sv.x
-	var supply int64
-	for _, b := range n.Supply {
-		if b > 0 {
-			supply += b
-		}
-	}
+	limit := flowLimit(n, sv.cands)
 	relaxed := make([]flow.Candidate, len(sv.cands))
 	for i, c := range sv.cands {
-		most := c.Upper
-		if most == flow.NoLimit || most > supply {
-			most = supply
+		most := min(c.Upper, limit) // (NoLimit is the largest int64)
+		if most == flow.NoLimit {
+			most = 0 // no raise
 		}
 		c.Lower = 0
 		if c.Fixed > 0 && most > 0 {

@@ -285,3 +285,119 @@ func TestSingleBounds(t *testing.T) {
 		t.Errorf("only %d bounds checked, %d lanes skipped", bounded, pruned)
 	}
 }
+
+// bestOverAllSets is the least total (LP optimum plus the fixed costs of
+// the candidates it uses) over every set of candidates, by the LP oracle;
+// +Inf when none is feasible. For a handful of candidates.
+func bestOverAllSets(t *testing.T, n *flow.Network, cs []flow.Candidate) float64 {
+	t.Helper()
+	best := math.Inf(1)
+	for mask := 0; mask < 1<<len(cs); mask++ {
+		var set []int
+		for k := range cs {
+			if mask&(1<<k) != 0 {
+				set = append(set, k)
+			}
+		}
+		sub := make([]flow.Candidate, len(set))
+		for i, k := range set {
+			sub[i] = cs[k]
+		}
+		res, err := oracle.MinCost(n.WithLanes(sub))
+		if err != nil {
+			t.Fatal(err)
+		}
+		if res.Status != oracle.Optimal {
+			continue
+		}
+		total := res.CostScaled
+		for i, k := range set {
+			if res.Flow[n.NumLanes()+i] > 0.5 {
+				total += float64(cs[k].Fixed)
+			}
+		}
+		best = math.Min(best, total)
+	}
+	return best
+}
+
+// TestExtendBoundCirculation: the lower bound of the linear relaxation
+// must stay at or below the best total when the most a candidate can carry
+// is more than the total supply: lane minimums that force units round a
+// cycle through the candidate (found by the long run of
+// TestExtendAgainstBruteForce, LANECERT_LONGRUN=10 LANECERT_LONGRUN_SEED=1,
+// case 49, where the bound came out above the answer), and a negative rate
+// that makes a cycle through it pay up to the capacity of the other lanes.
+// The best total over every set of candidates comes from gonum's LP simplex
+// (internal/oracle).
+func TestExtendBoundCirculation(t *testing.T) {
+	const no = flow.NoLimit
+	for _, c := range []struct {
+		name         string
+		n            *flow.Network
+		cs           []flow.Candidate
+		beyondSupply int // a candidate whose best plan carries more than the supply
+	}{
+		{
+			name: "minimums",
+			n: &flow.Network{
+				Nodes: []string{"a", "b", "c"}, Supply: []int64{-23, 5, 18},
+				Tail:      []flow.NodeID{2, 2, 0, 2, 0, 1, 0, 0},
+				Head:      []flow.NodeID{0, 1, 1, 0, 2, 0, 1, 2},
+				Rate:      []int64{961, 9700, 0, 9446, 5500, 0, 5107, 2500},
+				Lower:     []int64{0, 0, 20, 3, 31, 30, 1, 24},
+				Upper:     []int64{no, no, no, no, no, 70, 24, 104},
+				QtyPlaces: 1, RatePlaces: 2,
+			},
+			cs: []flow.Candidate{
+				{ID: "c0", Tail: 0, Head: 0, Rate: 184, Upper: 182, Fixed: 649, Same: -1},
+				{ID: "c1", Tail: 2, Head: 0, Rate: 47, Upper: 1, Fixed: 553, Same: -1},
+				{ID: "c2", Tail: 1, Head: 1, Rate: 152, Upper: no, Fixed: 739, Same: -1},
+				{ID: "c3", Tail: 2, Head: 0, Rate: 185, Upper: 151, Fixed: 686, Same: -1},
+			},
+			beyondSupply: 3,
+		},
+		{
+			name: "negative rate",
+			n: &flow.Network{
+				Nodes: []string{"a", "b"}, Supply: []int64{1, -1},
+				Tail: []flow.NodeID{0}, Head: []flow.NodeID{1},
+				Rate: []int64{10}, Lower: []int64{0}, Upper: []int64{100},
+			},
+			cs:           []flow.Candidate{{ID: "back", Tail: 1, Head: 0, Rate: -20, Upper: no, Fixed: 500, Same: -1}},
+			beyondSupply: 0,
+		},
+	} {
+		t.Run(c.name, func(t *testing.T) {
+			x, err := dual.Extend(c.n, c.cs, dual.ExtendOptions{})
+			if err != nil {
+				t.Fatal(err)
+			}
+			if !x.Feasible || !x.HasBound {
+				t.Fatalf("feasible %v, bound %v", x.Feasible, x.HasBound)
+			}
+			var supply int64
+			for _, b := range c.n.Supply {
+				supply += max(b, 0)
+			}
+			moved := false
+			for i, k := range x.Chosen {
+				moved = moved || (k == c.beyondSupply && x.Flows[i] > supply)
+			}
+			if !moved {
+				t.Fatalf("the case no longer moves more than the supply (%d) on candidate %d: chosen %v, flows %v", supply, c.beyondSupply, x.Chosen, x.Flows)
+			}
+			if x.Bound.Cmp(x.Cost) > 0 {
+				t.Fatalf("lower bound %s above the answer %s", c.n.FormatCost(x.Bound), c.n.FormatCost(x.Cost))
+			}
+			scale := math.Pow10(c.n.QtyPlaces + c.n.RatePlaces)
+			best := bestOverAllSets(t, c.n, c.cs) / scale
+			if bound := float64(x.Bound.Big().Int64()) / scale; bound > best+1e-9*math.Max(1, math.Abs(best)) {
+				t.Fatalf("lower bound %v above the best total %v", bound, best)
+			}
+			if got := float64(x.Cost.Big().Int64()) / scale; math.Abs(got-best) > 1e-9*math.Max(1, math.Abs(best)) {
+				t.Fatalf("answer %v, best total %v", got, best)
+			}
+		})
+	}
+}
