@@ -13,38 +13,41 @@ import (
 	"lanecert/internal/randnet"
 )
 
-// bruteTotal is the best total (LP optimum plus fixed costs of the lanes
-// it uses) over every subset of at most two candidates, by the LP oracle;
-// +Inf when none is feasible. Floats only in this comparison.
+// setTotal is the total of the network with the candidates of set added
+// (LP optimum, by the LP oracle, plus the fixed costs of the candidates it
+// uses), in cost units; +Inf when that network is infeasible. Floats only
+// in these comparisons.
+func setTotal(t *testing.T, n *flow.Network, cs []flow.Candidate, set []int) float64 {
+	t.Helper()
+	sub := make([]flow.Candidate, len(set))
+	for i, k := range set {
+		sub[i] = cs[k]
+	}
+	res, err := oracle.MinCost(n.WithLanes(sub))
+	if err != nil {
+		t.Fatal(err)
+	}
+	if res.Status != oracle.Optimal {
+		return math.Inf(1)
+	}
+	total := res.CostScaled
+	for i, k := range set {
+		if res.Flow[n.NumLanes()+i] > 0.5 {
+			total += float64(cs[k].Fixed)
+		}
+	}
+	return total / math.Pow10(n.QtyPlaces+n.RatePlaces)
+}
+
+// bruteTotal is the best total (setTotal) over every subset of at most two
+// candidates; +Inf when none is feasible.
 func bruteTotal(t *testing.T, n *flow.Network, cs []flow.Candidate) float64 {
 	t.Helper()
-	best := math.Inf(1)
-	scale := math.Pow10(n.QtyPlaces + n.RatePlaces)
-	eval := func(set []int) {
-		sub := make([]flow.Candidate, len(set))
-		for i, k := range set {
-			sub[i] = cs[k]
-		}
-		res, err := oracle.MinCost(n.WithLanes(sub))
-		if err != nil {
-			t.Fatal(err)
-		}
-		if res.Status != oracle.Optimal {
-			return
-		}
-		total := res.CostScaled
-		for i, k := range set {
-			if res.Flow[n.NumLanes()+i] > 0.5 {
-				total += float64(cs[k].Fixed)
-			}
-		}
-		best = math.Min(best, total/scale)
-	}
-	eval(nil)
+	best := setTotal(t, n, cs, nil)
 	for a := range cs {
-		eval([]int{a})
+		best = math.Min(best, setTotal(t, n, cs, []int{a}))
 		for b := a + 1; b < len(cs); b++ {
-			eval([]int{a, b})
+			best = math.Min(best, setTotal(t, n, cs, []int{a, b}))
 		}
 	}
 	return best
@@ -286,9 +289,8 @@ func TestSingleBounds(t *testing.T) {
 	}
 }
 
-// bestOverAllSets is the least total (LP optimum plus the fixed costs of
-// the candidates it uses) over every set of candidates, by the LP oracle;
-// +Inf when none is feasible. For a handful of candidates.
+// bestOverAllSets is the best total (setTotal) over every set of
+// candidates; +Inf when none is feasible. For a handful of candidates.
 func bestOverAllSets(t *testing.T, n *flow.Network, cs []flow.Candidate) float64 {
 	t.Helper()
 	best := math.Inf(1)
@@ -299,24 +301,7 @@ func bestOverAllSets(t *testing.T, n *flow.Network, cs []flow.Candidate) float64
 				set = append(set, k)
 			}
 		}
-		sub := make([]flow.Candidate, len(set))
-		for i, k := range set {
-			sub[i] = cs[k]
-		}
-		res, err := oracle.MinCost(n.WithLanes(sub))
-		if err != nil {
-			t.Fatal(err)
-		}
-		if res.Status != oracle.Optimal {
-			continue
-		}
-		total := res.CostScaled
-		for i, k := range set {
-			if res.Flow[n.NumLanes()+i] > 0.5 {
-				total += float64(cs[k].Fixed)
-			}
-		}
-		best = math.Min(best, total)
+		best = math.Min(best, setTotal(t, n, cs, set))
 	}
 	return best
 }
@@ -391,7 +376,7 @@ func TestExtendBoundCirculation(t *testing.T) {
 				t.Fatalf("lower bound %s above the answer %s", c.n.FormatCost(x.Bound), c.n.FormatCost(x.Cost))
 			}
 			scale := math.Pow10(c.n.QtyPlaces + c.n.RatePlaces)
-			best := bestOverAllSets(t, c.n, c.cs) / scale
+			best := bestOverAllSets(t, c.n, c.cs)
 			if bound := float64(x.Bound.Big().Int64()) / scale; bound > best+1e-9*math.Max(1, math.Abs(best)) {
 				t.Fatalf("lower bound %v above the best total %v", bound, best)
 			}
