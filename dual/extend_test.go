@@ -80,8 +80,9 @@ func bruteSingle(t *testing.T, n *flow.Network, cs []flow.Candidate) float64 {
 
 // TestExtendAgainstBruteForce: on small networks (infeasible ones among
 // them) the chosen lanes give a feasible plan costing what Extend says, no
-// single lane or pair does better (brute force with the LP oracle), and
-// the lower bound holds.
+// single lane or pair does better (brute force with the LP oracle), the
+// lower bound lies at or below the best over every set of candidates, and
+// an answer called exact is that best.
 func TestExtendAgainstBruteForce(t *testing.T) {
 	rng := rand.New(rand.NewPCG(longrun.Seed(t, 3), 9))
 	fixedCases, madeFeasible, pruned := 0, 0, 0
@@ -184,6 +185,15 @@ func TestExtendAgainstBruteForce(t *testing.T) {
 		}
 		if x.HasBound && x.Bound.Cmp(x.Cost) > 0 {
 			t.Fatalf("case %d: lower bound %s above the answer %s", i, n.FormatCost(x.Bound), n.FormatCost(x.Cost))
+		}
+		// The bound holds against the best of every set (the answer may
+		// miss it), and an answer called exact is that best.
+		best := bestOverAllSets(t, n, cs)
+		if bound := float64(x.Bound.Big().Int64()) / scale; x.HasBound && bound > best+1e-6*math.Max(1, math.Abs(best)) {
+			t.Fatalf("case %d: lower bound %v above the best over every set %v", i, bound, best)
+		}
+		if x.Exact && math.Abs(got-best) > 1e-6*math.Max(1, math.Abs(best)) {
+			t.Fatalf("case %d: called exact at %v, the best over every set is %v", i, got, best)
 		}
 	}
 	t.Logf("%d cases with fixed costs, %d made feasible, %d single lanes skipped by their bounds", fixedCases, madeFeasible, pruned)
