@@ -136,6 +136,17 @@ func Extend(n *flow.Network, cands []flow.Candidate, opt ExtendOptions) (*Extens
 		sv.consider(t)
 		x.Method, x.Exact = "one minimum-cost flow over the network and every candidate (no fixed costs: exact)", true
 	} else {
+		if !opt.SinglesOnly && hasNegativeRate(n, cands) {
+			// Some set of candidates may close a cycle of lanes without
+			// capacity whose rates sum below zero, a set the search below
+			// might not try (three lanes or more): then every candidate
+			// open closes it too. (Without negative rates no cycle can.)
+			t, err := sv.try(all)
+			if err != nil {
+				return nil, err
+			}
+			sv.consider(t)
+		}
 		// On an infeasible network a single lane must enter the short
 		// region from outside with room for the units short.
 		hopeless := make([]bool, len(cands))
@@ -582,13 +593,7 @@ func flowLimit(n *flow.Network, cands []flow.Candidate) int64 {
 			}
 		}
 	}
-	negative := false
-	for _, r := range n.Rate {
-		negative = negative || r < 0
-	}
-	for _, c := range cands {
-		negative = negative || c.Rate < 0
-	}
+	negative := hasNegativeRate(n, cands)
 	limit := supply
 	if negative {
 		if limit, err = flow.AddChecked(limit, supply); err != nil {
@@ -617,6 +622,23 @@ func flowLimit(n *flow.Network, cands []flow.Candidate) int64 {
 		}
 	}
 	return limit
+}
+
+// hasNegativeRate reports whether a lane of n or a candidate has a
+// negative rate (only then can candidates close a cycle whose rates sum
+// below zero).
+func hasNegativeRate(n *flow.Network, cands []flow.Candidate) bool {
+	for _, r := range n.Rate {
+		if r < 0 {
+			return true
+		}
+	}
+	for _, c := range cands {
+		if c.Rate < 0 {
+			return true
+		}
+	}
+	return false
 }
 
 // pricedBasis solves n with unmet demand priced at one more than the sum of

@@ -3,6 +3,7 @@ package dual_test
 import (
 	"math"
 	"math/rand/v2"
+	"strings"
 	"testing"
 
 	"lanecert/dual"
@@ -85,10 +86,10 @@ func bruteSingle(t *testing.T, n *flow.Network, cs []flow.Candidate) float64 {
 // an answer called exact is that best.
 func TestExtendAgainstBruteForce(t *testing.T) {
 	rng := rand.New(rand.NewPCG(longrun.Seed(t, 3), 9))
-	fixedCases, madeFeasible, pruned := 0, 0, 0
+	fixedCases, madeFeasible, pruned, unbounded := 0, 0, 0, 0
 	for i := range longrun.Cases(t, 150) {
 		o := randnet.RandomOptions(rng)
-		o.NegativeRates = false
+		o.NegativeRates = i%4 == 1
 		o.Infeasible = false
 		n := randnet.Network(rng, o)
 		if n.NumNodes() < 2 {
@@ -123,6 +124,16 @@ func TestExtendAgainstBruteForce(t *testing.T) {
 				c.Fixed = rng.Int64N(1000)
 			}
 			cs = append(cs, c)
+		}
+		// With negative rates, candidates may close a cycle of lanes
+		// without capacity whose rates sum below zero (the union of all
+		// of them does when any set does).
+		if all, _ := oracle.MinCost(n.WithLanes(cs)); all.Status == oracle.Unbounded {
+			if _, err := dual.Extend(n, cs, dual.ExtendOptions{}); err != nil {
+				unbounded++
+				continue
+			}
+			t.Fatalf("case %d: some set of candidates lets the cost fall without limit, and Extend gave an answer", i)
 		}
 		x, err := dual.Extend(n, cs, dual.ExtendOptions{})
 		if err != nil {
@@ -196,7 +207,7 @@ func TestExtendAgainstBruteForce(t *testing.T) {
 			t.Fatalf("case %d: called exact at %v, the best over every set is %v", i, got, best)
 		}
 	}
-	t.Logf("%d cases with fixed costs, %d made feasible, %d single lanes skipped by their bounds", fixedCases, madeFeasible, pruned)
+	t.Logf("%d cases with fixed costs, %d made feasible, %d single lanes skipped by their bounds, %d let the cost fall without limit", fixedCases, madeFeasible, pruned, unbounded)
 	if fixedCases < 30 || madeFeasible < 10 {
 		t.Errorf("coverage: %d cases with fixed costs, %d made feasible", fixedCases, madeFeasible)
 	}
@@ -394,5 +405,41 @@ func TestExtendBoundCirculation(t *testing.T) {
 				t.Fatalf("answer %v, best total %v", got, best)
 			}
 		})
+	}
+}
+
+// TestExtendCycleOfThree: three candidates with negative rates and no
+// capacity close a cycle only together, so neither a single lane, a pair
+// nor the greedy step (each lane alone only adds its fixed cost) finds it,
+// and the relaxation (fixed costs spread over the most a lane can carry)
+// sees no negative cycle either. The cost with all three open falls
+// without limit (gonum's LP simplex agrees), so Extend must say so rather
+// than give an answer, let alone call one exact.
+func TestExtendCycleOfThree(t *testing.T) {
+	const no = flow.NoLimit
+	n := &flow.Network{
+		Nodes: []string{"a", "b", "c", "d"}, Supply: []int64{1, 0, 0, -1},
+		Tail: []flow.NodeID{0}, Head: []flow.NodeID{3},
+		Rate: []int64{10}, Lower: []int64{0}, Upper: []int64{no},
+	}
+	cs := []flow.Candidate{
+		{ID: "ab", Tail: 0, Head: 1, Rate: -5, Upper: no, Fixed: 100, Same: -1},
+		{ID: "bc", Tail: 1, Head: 2, Rate: -5, Upper: no, Fixed: 100, Same: -1},
+		{ID: "ca", Tail: 2, Head: 0, Rate: -5, Upper: no, Fixed: 100, Same: -1},
+	}
+	if lp, err := oracle.MinCost(n.WithLanes(cs)); err != nil || lp.Status != oracle.Unbounded {
+		t.Fatalf("oracle with all three: %v %v", lp.Status, err)
+	}
+	for k := range cs {
+		if lp, err := oracle.MinCost(n.WithLanes(append(append([]flow.Candidate(nil), cs[:k]...), cs[k+1:]...))); err != nil || lp.Status != oracle.Optimal {
+			t.Fatalf("oracle without %s: %v %v", cs[k].ID, lp.Status, err)
+		}
+	}
+	x, err := dual.Extend(n, cs, dual.ExtendOptions{})
+	if err == nil {
+		t.Fatalf("no error: feasible %v, cost %s, exact %v, chosen %v", x.Feasible, n.FormatCost(x.Cost), x.Exact, x.Chosen)
+	}
+	if !strings.Contains(err.Error(), "without limit") {
+		t.Fatalf("error %q does not say the cost falls without limit", err)
 	}
 }
