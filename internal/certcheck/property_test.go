@@ -13,93 +13,6 @@ import (
 	"lanecert/internal/randnet"
 )
 
-// resArc is an arc of the residual graph of a plan: moving one unit along
-// it changes lane (or, when hold, the hold of origin node tail) by
-// +1 (forward) or -1, at cost rate per unit.
-type resArc struct {
-	from, to int
-	lane     int // lane index, or -1 for a hold arc
-	forward  bool
-	rate     int64
-	room     int64 // units that can move; flow.NoLimit for no limit
-}
-
-// residualArcs lists the residual arcs of plan x. Node len(n.Nodes) is the
-// hold node H when total supply exceeds total demand.
-func residualArcs(n *flow.Network, x []int64) (arcs []resArc, nodes int) {
-	nodes = len(n.Nodes)
-	for a := range n.Tail {
-		t, h := int(n.Tail[a]), int(n.Head[a])
-		if n.Upper[a] == flow.NoLimit {
-			arcs = append(arcs, resArc{t, h, a, true, n.Rate[a], flow.NoLimit})
-		} else if x[a] < n.Upper[a] {
-			arcs = append(arcs, resArc{t, h, a, true, n.Rate[a], n.Upper[a] - x[a]})
-		}
-		if x[a] > n.Lower[a] {
-			arcs = append(arcs, resArc{h, t, a, false, -n.Rate[a], x[a] - n.Lower[a]})
-		}
-	}
-	s, d, _ := n.Totals()
-	if s > d {
-		hold := nodes
-		nodes++
-		out := make([]int64, len(n.Nodes))
-		for a := range n.Tail {
-			out[n.Tail[a]] += x[a]
-			out[n.Head[a]] -= x[a]
-		}
-		for v, sv := range n.Supply {
-			if sv <= 0 {
-				continue
-			}
-			h := sv - out[v]
-			if h < sv {
-				arcs = append(arcs, resArc{v, hold, -1, true, 0, sv - h})
-			}
-			if h > 0 {
-				arcs = append(arcs, resArc{hold, v, -1, false, 0, h})
-			}
-		}
-	}
-	return arcs, nodes
-}
-
-// bellmanFord returns shortest distances from a virtual root joined to
-// every node at cost 0, or a negative cycle (as residual arcs in walk
-// order) when one exists. Test-local, O(|V|·|E|).
-func bellmanFord(arcs []resArc, nodes int) (dist []int64, cycle []resArc) {
-	dist = make([]int64, nodes)
-	pred := make([]int, nodes)
-	for v := range pred {
-		pred[v] = -1
-	}
-	last := -1
-	for range nodes + 1 {
-		last = -1
-		for i, e := range arcs {
-			if d := dist[e.from] + e.rate; d < dist[e.to] {
-				dist[e.to], pred[e.to], last = d, i, e.to
-			}
-		}
-		if last < 0 {
-			return dist, nil
-		}
-	}
-	v := last
-	for range nodes {
-		v = arcs[pred[v]].from
-	}
-	for u := v; ; {
-		e := arcs[pred[u]]
-		cycle = append([]resArc{e}, cycle...)
-		u = e.from
-		if u == v {
-			break
-		}
-	}
-	return nil, cycle
-}
-
 func planCost(n *flow.Network, x []int64) *big.Int {
 	c := new(big.Int)
 	for a := range x {
@@ -142,8 +55,8 @@ func TestCertificatesRandom(t *testing.T) {
 		}
 		cost := planCost(n, x)
 		places := n.QtyPlaces + n.RatePlaces
-		arcs, nodes := residualArcs(n, x)
-		dist, cyc := bellmanFord(arcs, nodes)
+		arcs, nodes := oracle.Residual(n, x)
+		dist, cyc := oracle.NegativeCycle(arcs, nodes)
 		if cyc == nil {
 			optimal++
 			if r.Status != oracle.Optimal || !oracle.SameCost(wide(t, cost), places, r) {
@@ -176,13 +89,13 @@ func TestCertificatesRandom(t *testing.T) {
 		var perUnit int64
 		viaHold := false
 		for _, e := range cyc {
-			if e.lane < 0 {
+			if e.Lane < 0 {
 				viaHold = true
 				break
 			}
-			steps = append(steps, certcheck.Step{Lane: flow.LaneID(e.lane), Forward: e.forward})
-			theta = min(theta, e.room)
-			perUnit += e.rate
+			steps = append(steps, certcheck.Step{Lane: flow.LaneID(e.Lane), Forward: e.Forward})
+			theta = min(theta, e.Room)
+			perUnit += e.Rate
 		}
 		if viaHold {
 			holdCycles++

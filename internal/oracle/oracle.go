@@ -7,7 +7,10 @@
 // for the small networks of property tests (up to a few dozen nodes and
 // lanes; the dense simplex costs O((|V|+|E|)^3) per pivot), and its answers
 // are compared with exact values only through SameCost, with a named
-// tolerance. Floats never decide a verdict elsewhere in lanecert.
+// tolerance. Floats never decide a verdict elsewhere in lanecert. Where a
+// test needs an exact verdict on one plan (is it optimal?), Improvable
+// decides it in integers from the residual network (Residual,
+// NegativeCycle), written here from the definition.
 //
 // The problem and its signs are those of package flow: minimise
 // Σ Rate[a]·x[a] subject to Lower[a] <= x[a] <= Upper[a] and, for every
