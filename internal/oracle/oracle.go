@@ -69,6 +69,14 @@ type Result struct {
 	// Flow is an optimal plan in scaled quantities, one value per lane; nil
 	// unless Status is Optimal. Values are floats near integers.
 	Flow []float64
+	// Exact reports that Flow, rounded to integers (Plan), is a feasible
+	// plan that Improvable proves optimal, so that ExactCost, its cost in
+	// integers, is the optimum itself: SameCost then compares exactly.
+	// False when the rounded plan fails either test or its cost overflows
+	// (SameCost then falls back to its tolerances).
+	Exact     bool
+	Plan      []int64
+	ExactCost flow.Wide
 }
 
 const (
@@ -302,7 +310,67 @@ func MinCost(n *flow.Network) (Result, error) {
 		res.CostScaled += float64(n.Rate[a]) * res.Flow[a]
 	}
 	res.Cost = res.CostScaled / math.Pow(10, float64(n.QtyPlaces+n.RatePlaces))
+	res.polish(n)
 	return res, nil
+}
+
+// polish rounds the optimal plan to integers and, when the rounded plan
+// is feasible and no cycle of its residual network has a negative cost,
+// records it with its exact cost (Exact). Network-flow LPs have integral
+// optimal vertices, so rounding fails only through float error.
+func (r *Result) polish(n *flow.Network) {
+	x := make([]int64, len(r.Flow))
+	for a, f := range r.Flow {
+		if math.IsNaN(f) || math.Abs(f) >= 1<<62 {
+			return
+		}
+		x[a] = int64(math.Round(f))
+	}
+	if !feasible(n, x) {
+		return
+	}
+	if _, cycle, ok := negativeCycle(Residual(n, x)); !ok || cycle != nil {
+		return
+	}
+	var cost flow.Wide
+	for a, xa := range x {
+		var err error
+		if cost, err = cost.Add(flow.MulWide(n.Rate[a], xa)); err != nil {
+			return
+		}
+	}
+	r.Exact, r.Plan, r.ExactCost = true, x, cost
+}
+
+// feasible reports whether integer plan x keeps every lane's bounds and
+// every node's balance (under excess supply an origin may keep part of its
+// supply: outflow minus inflow in [0, Supply]).
+func feasible(n *flow.Network, x []int64) bool {
+	supply, demand, err := n.Totals()
+	if err != nil {
+		return false
+	}
+	out := make([]*big.Int, len(n.Nodes))
+	for v := range out {
+		out[v] = new(big.Int)
+	}
+	for a, xa := range x {
+		if xa < n.Lower[a] || (n.Upper[a] != flow.NoLimit && xa > n.Upper[a]) {
+			return false
+		}
+		out[n.Tail[a]].Add(out[n.Tail[a]], big.NewInt(xa))
+		out[n.Head[a]].Sub(out[n.Head[a]], big.NewInt(xa))
+	}
+	for v, b := range n.Supply {
+		if supply > demand && b > 0 {
+			if out[v].Sign() < 0 || out[v].Cmp(big.NewInt(b)) > 0 {
+				return false
+			}
+		} else if out[v].Cmp(big.NewInt(b)) != 0 {
+			return false
+		}
+	}
+	return true
 }
 
 // phaseOne reports whether A·x = b, x >= 0 has a solution and if so
@@ -410,12 +478,17 @@ func (ind *independent) add(A *mat.Dense, j int) bool {
 }
 
 // SameCost reports whether the exact cost exact (scaled by 10^places)
-// equals the oracle's optimal cost within SameCostRelTol (relative) or
-// SameCostAbsTol (absolute, scaled units). places must be the network's
-// QtyPlaces+RatePlaces; r.Status must be Optimal, or the answer is false.
+// equals the oracle's optimal cost: exactly when the oracle proved its
+// rounded plan optimal (r.Exact), otherwise within SameCostRelTol
+// (relative) or SameCostAbsTol (absolute, scaled units). places must be
+// the network's QtyPlaces+RatePlaces; r.Status must be Optimal, or the
+// answer is false.
 func SameCost(exact flow.Wide, places int, r Result) bool {
 	if r.Status != Optimal {
 		return false
+	}
+	if r.Exact {
+		return exact.Cmp(r.ExactCost) == 0
 	}
 	e, _ := new(big.Float).SetInt(exact.Big()).Float64()
 	got := r.Cost * math.Pow(10, float64(places))

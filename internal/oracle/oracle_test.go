@@ -3,6 +3,7 @@ package oracle_test
 import (
 	"bufio"
 	"math"
+	"math/big"
 	"math/rand/v2"
 	"os"
 	"path/filepath"
@@ -306,6 +307,10 @@ func TestSameCost(t *testing.T) {
 		{1, 0, oracle.Result{Status: oracle.Optimal, Cost: 0}, false},
 		{100, 0, oracle.Result{Status: oracle.Infeasible, Cost: 100}, false},
 		{-1e15, 0, oracle.Result{Status: oracle.Optimal, Cost: -1e15 * (1 + 1e-11)}, true},
+		// A proved optimum is compared exactly: a float cost within the
+		// tolerance does not help a different exact one.
+		{1e15, 0, oracle.Result{Status: oracle.Optimal, Cost: 1e15, Exact: true, ExactCost: flow.WideFrom(1e15 + 1)}, false},
+		{1e15 + 1, 0, oracle.Result{Status: oracle.Optimal, Cost: 1e15, Exact: true, ExactCost: flow.WideFrom(1e15 + 1)}, true},
 	}
 	for _, tc := range tests {
 		if got := oracle.SameCost(flow.WideFrom(tc.exact), tc.places, tc.r); got != tc.want {
@@ -324,10 +329,12 @@ func TestStatusString(t *testing.T) {
 
 // TestMinCostRandom compares the oracle with randnet's exact feasibility
 // search: both must agree on feasibility, the oracle's plan must be
-// feasible, and no feasible plan found may cost less than the optimum.
+// feasible, and no feasible plan found may cost less than the optimum; the
+// optimum proved exactly (Exact) must be consistent with the float one.
 func TestMinCostRandom(t *testing.T) {
 	rng := rand.New(rand.NewPCG(20240611, 1))
 	count := map[oracle.Status]int{}
+	exact := 0
 	for i := range 400 {
 		o := randnet.RandomOptions(rng)
 		n := randnet.Network(rng, o)
@@ -351,11 +358,40 @@ func TestMinCostRandom(t *testing.T) {
 		if c < r.CostScaled-1e-6*(1+math.Abs(c)) {
 			t.Fatalf("case %d: plan cost %v below optimum %v", i, c, r.CostScaled)
 		}
+		// The exact optimum, when the oracle proves it: its plan rounds
+		// r.Flow, it is feasible and improvable by no cycle, its cost is
+		// the float cost up to rounding, and no feasible plan costs less.
+		if !r.Exact {
+			continue
+		}
+		exact++
+		if oracle.Improvable(n, r.Plan) {
+			t.Fatalf("case %d: exact plan improvable", i)
+		}
+		var pc, fc flow.Wide
+		for a := range r.Plan {
+			if float64(r.Plan[a]) != math.Round(r.Flow[a]) {
+				t.Fatalf("case %d lane %d: plan %d, flow %v", i, a, r.Plan[a], r.Flow[a])
+			}
+			pc, _ = pc.Add(flow.MulWide(n.Rate[a], r.Plan[a]))
+			fc, _ = fc.Add(flow.MulWide(n.Rate[a], plan[a]))
+		}
+		if pc.Cmp(r.ExactCost) != 0 || fc.Cmp(r.ExactCost) < 0 {
+			t.Fatalf("case %d: exact cost %s, plan's %s, a feasible plan's %s", i, r.ExactCost.Format(0), pc.Format(0), fc.Format(0))
+		}
+		if e, _ := new(big.Float).SetInt(r.ExactCost.Big()).Float64(); math.Abs(e-r.CostScaled) > 1e-6*(1+math.Abs(e)) {
+			t.Fatalf("case %d: exact cost %v, float cost %v", i, e, r.CostScaled)
+		}
+	}
+	// Network-flow LPs have integral optimal vertices: rounding should
+	// almost always give the proved optimum (common practice, no source).
+	if exact*100 < count[oracle.Optimal]*95 {
+		t.Errorf("only %d of %d optima proved exactly", exact, count[oracle.Optimal])
 	}
 	for _, s := range []oracle.Status{oracle.Optimal, oracle.Infeasible, oracle.Unbounded} {
 		if count[s] == 0 {
 			t.Errorf("no %v cases among random networks", s)
 		}
 	}
-	t.Logf("statuses: %v", count)
+	t.Logf("statuses: %v; %d optima proved exactly", count, exact)
 }

@@ -1,8 +1,6 @@
 package oracle
 
 import (
-	"math"
-
 	"lanecert/flow"
 )
 
@@ -70,6 +68,15 @@ func Residual(n *flow.Network, x []int64) (arcs []ResidualArc, nodes int) {
 // panics when a distance overflows int64 (the small networks of tests
 // stay far from it).
 func NegativeCycle(arcs []ResidualArc, nodes int) (dist []int64, cycle []ResidualArc) {
+	dist, cycle, ok := negativeCycle(arcs, nodes)
+	if !ok {
+		panic("oracle: residual distance overflows int64")
+	}
+	return dist, cycle
+}
+
+// negativeCycle is NegativeCycle, with ok false instead of a panic.
+func negativeCycle(arcs []ResidualArc, nodes int) (dist []int64, cycle []ResidualArc, ok bool) {
 	dist = make([]int64, nodes)
 	pred := make([]int, nodes)
 	for v := range pred {
@@ -80,15 +87,15 @@ func NegativeCycle(arcs []ResidualArc, nodes int) (dist []int64, cycle []Residua
 		last = -1
 		for i, e := range arcs {
 			d := dist[e.From] + e.Rate
-			if (e.Rate > 0 && d < dist[e.From]) || (e.Rate < 0 && d > dist[e.From]) || d == math.MinInt64 {
-				panic("oracle: residual distance overflows int64")
+			if (e.Rate > 0 && d < dist[e.From]) || (e.Rate < 0 && d > dist[e.From]) {
+				return nil, nil, false
 			}
 			if d < dist[e.To] {
 				dist[e.To], pred[e.To], last = d, i, e.To
 			}
 		}
 		if last < 0 {
-			return dist, nil
+			return dist, nil, true
 		}
 	}
 	v := last
@@ -103,13 +110,13 @@ func NegativeCycle(arcs []ResidualArc, nodes int) (dist []int64, cycle []Residua
 			break
 		}
 	}
-	return nil, cycle
+	return nil, cycle, true
 }
 
 // Improvable reports whether plan x (feasible for n) is not optimal: its
 // residual network has a cycle of negative cost (the exact optimality
 // condition of minimum-cost flow; an unbounded problem has one too, of
-// lanes without capacity).
+// lanes without capacity). It panics when a distance overflows int64.
 func Improvable(n *flow.Network, x []int64) bool {
 	_, cycle := NegativeCycle(Residual(n, x))
 	return cycle != nil
