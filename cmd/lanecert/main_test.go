@@ -557,3 +557,25 @@ func TestProgressLines(t *testing.T) {
 		t.Fatal("callbacks without a terminal")
 	}
 }
+
+// TestExtendFallsWithoutLimit: a network lane at a negative rate and three
+// candidates that close a cycle of negative cost without capacity only
+// together. The command must say that the cost falls without limit (exit
+// 4), not report that no candidate lowers the cost.
+func TestExtendFallsWithoutLimit(t *testing.T) {
+	dir := t.TempDir()
+	write := func(name, text string) string {
+		p := filepath.Join(dir, name)
+		if err := os.WriteFile(p, []byte(text), 0o644); err != nil {
+			t.Fatal(err)
+		}
+		return p
+	}
+	lanes := write("lanes.csv", "lane,from,to,rate\nL1,a,d,10\nL2,x,a,-30\n")
+	nodes := write("nodes.csv", "node,supply\na,1\nb,0\nc,0\nx,0\nd,-1\n")
+	cands := write("cands.csv", "id,from,to,rate,fixed\nab,a,b,5,100\nbc,b,c,5,100\ncx,c,x,5,100\n")
+	code, out, errText := runCLI(t, "extend", lanes, "--nodes", nodes, "--candidates", cands)
+	if code != exitBadInput || !strings.Contains(errText, "falls without limit") {
+		t.Fatalf("exit %d, stdout %q, stderr %q; want 4 and the cost falling without limit", code, out, errText)
+	}
+}
