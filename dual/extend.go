@@ -348,14 +348,25 @@ func (sv *setSolver) try(set []int) (trial, error) {
 	sv.x.Solves++
 	var used func(i int) int64
 	var cost flow.Wide
+	// The priced network can always place its demand (unmet lanes), so a
+	// cycle without limit there may belong to a network that still cannot
+	// meet its demands with the set: that case is solved from scratch
+	// (below), which tells the two apart.
+	var add *flow.Added
 	if sv.basis != nil {
-		add, err := sv.basis.Add(sub)
-		if err != nil {
+		var err error
+		if add, err = sv.basis.Add(sub); err != nil {
 			return t, err
 		}
 		if add.Status == flow.Unbounded {
-			return t, fmt.Errorf("dual: with candidates added the cost falls without limit (a cycle without capacity)")
+			if sv.unmet == 0 {
+				return t, fmt.Errorf("dual: with candidates added the cost falls without limit (a cycle without capacity)")
+			}
+			add = nil
+			sv.x.Solves++
 		}
+	}
+	if add != nil {
 		for k := 0; k < sv.unmet; k++ {
 			t.short += add.Flow(flow.LaneID(m + k))
 		}

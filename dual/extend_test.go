@@ -218,12 +218,14 @@ func TestExtendAgainstBruteForce(t *testing.T) {
 // the network with that lane added (gonum's LP simplex, internal/oracle,
 // plus the lane's fixed cost), whenever that network is feasible; and the
 // best single lane found while skipping lanes is the brute-force best.
+// Half of the networks have negative rates (then a lane may let the cost
+// fall without limit, which must stop Extend with an error).
 func TestSingleBounds(t *testing.T) {
 	rng := rand.New(rand.NewPCG(longrun.Seed(t, 17), 3))
 	bounded, tight, pruned := 0, 0, 0
 	for i, cases, enough := 0, longrun.Cases(t, 400), longrun.Cases(t, 300); i < cases && bounded < enough; i++ {
 		o := randnet.RandomOptions(rng)
-		o.NegativeRates, o.Infeasible = false, false
+		o.NegativeRates, o.Infeasible = i%2 == 0, false
 		n := randnet.Network(rng, o)
 		if n.NumNodes() < 2 {
 			continue
@@ -270,7 +272,13 @@ func TestSingleBounds(t *testing.T) {
 		// brute-force best.
 		one, err := dual.Extend(n, cs, dual.ExtendOptions{SinglesOnly: true, Cut: cut, CutKnown: true})
 		if err != nil {
-			t.Fatalf("case %d: %v", i, err)
+			// With negative rates a single lane may close a cycle of
+			// negative cost without capacity: then, and only then, Extend
+			// stops with an error.
+			if all, _ := oracle.MinCost(n.WithLanes(cs)); !o.NegativeRates || all.Status != oracle.Unbounded {
+				t.Fatalf("case %d: %v (oracle with every lane: %v)", i, err, all.Status)
+			}
+			continue
 		}
 		pruned += one.Pruned
 		ws := bruteSingle(t, n, cs)
@@ -441,5 +449,43 @@ func TestExtendCycleOfThree(t *testing.T) {
 	}
 	if !strings.Contains(err.Error(), "without limit") {
 		t.Fatalf("error %q does not say the cost falls without limit", err)
+	}
+}
+
+// TestExtendShortWithCycle: on a network that cannot meet its demand, a
+// candidate that closes a cycle of negative cost without capacity but
+// delivers nothing leaves the network short: alone it is no answer (the
+// best single lane is the one that delivers), while with every candidate
+// open the cost falls without limit. (Solving from the priced network,
+// whose unmet lanes always place the demand, took that cycle for an answer
+// for the whole search.) Totals from gonum's LP simplex (internal/oracle).
+func TestExtendShortWithCycle(t *testing.T) {
+	const no = flow.NoLimit
+	// o supplies 10, d demands 10 but o -> d carries 5; d -> x costs -10
+	// per unit without limit, and x is reached from nowhere else.
+	n := &flow.Network{
+		Nodes: []string{"o", "d", "x"}, Supply: []int64{10, -10, 0},
+		Tail: []flow.NodeID{0, 1}, Head: []flow.NodeID{1, 2},
+		Rate: []int64{1, -10}, Lower: []int64{0, 0}, Upper: []int64{5, no},
+	}
+	cs := []flow.Candidate{
+		{ID: "loop", Tail: 2, Head: 1, Rate: 1, Upper: no, Fixed: 0, Same: -1},
+		{ID: "more", Tail: 0, Head: 1, Rate: 3, Upper: 5, Fixed: 7, Same: -1},
+	}
+	for k, want := range []oracle.Status{oracle.Infeasible, oracle.Optimal} {
+		if lp, err := oracle.MinCost(n.WithLanes(cs[k : k+1])); err != nil || lp.Status != want {
+			t.Fatalf("oracle with %s alone: %v %v, want %v", cs[k].ID, lp.Status, err, want)
+		}
+	}
+	one, err := dual.Extend(n, cs, dual.ExtendOptions{SinglesOnly: true})
+	if err != nil {
+		t.Fatalf("best single lane: %v", err)
+	}
+	want := setTotal(t, n, cs, []int{1})
+	if got := float64(one.Cost.Big().Int64()) / math.Pow10(n.QtyPlaces+n.RatePlaces); !one.Feasible || !one.Exact || len(one.Chosen) != 1 || one.Chosen[0] != 1 || got != want {
+		t.Fatalf("best single: feasible %v exact %v chosen %v total %v; want lane 1 at %v", one.Feasible, one.Exact, one.Chosen, got, want)
+	}
+	if _, err := dual.Extend(n, cs, dual.ExtendOptions{}); err == nil || !strings.Contains(err.Error(), "without limit") {
+		t.Fatalf("every candidate open: error %v, want the cost falling without limit", err)
 	}
 }
