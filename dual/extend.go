@@ -128,13 +128,43 @@ func Extend(n *flow.Network, cands []flow.Candidate, opt ExtendOptions) (*Extens
 	if x.WasFeasible {
 		sv.best = trial{ok: true, total: x.BaseCost, plan: sv.baseFlow}
 	}
-	if !fixed && !opt.SinglesOnly {
+	// Candidates with a minimum carry at least that when opened, so
+	// opening one is a choice even without fixed costs.
+	var withMin, noMin []int
+	for i, c := range cands {
+		if c.Lower > 0 {
+			withMin = append(withMin, i)
+		} else {
+			noMin = append(noMin, i)
+		}
+	}
+	if !fixed && !opt.SinglesOnly && len(withMin) == 0 {
 		t, err := sv.try(all)
 		if err != nil {
 			return nil, err
 		}
 		sv.consider(t)
 		x.Method, x.Exact = "one minimum-cost flow over the network and every candidate (no fixed costs: exact)", true
+	} else if !fixed && !opt.SinglesOnly && len(withMin) <= maxMinChoices {
+		// Every candidate without a minimum is free to open (it may carry
+		// nothing): each choice of those with a minimum is solved with
+		// all of them.
+		for mask := 0; mask < 1<<len(withMin); mask++ {
+			set := append([]int(nil), noMin...)
+			for j, k := range withMin {
+				if mask&(1<<j) != 0 {
+					set = append(set, k)
+				}
+			}
+			sort.Ints(set)
+			t, err := sv.try(set)
+			if err != nil {
+				return nil, err
+			}
+			sv.consider(t)
+		}
+		x.Method = fmt.Sprintf("one minimum-cost flow for each choice of the %d candidates with a minimum, with every other candidate (no fixed costs: exact)", len(withMin))
+		x.Exact = true
 	} else {
 		if !opt.SinglesOnly && hasNegativeRate(n, cands) {
 			// Some set of candidates may close a cycle of lanes without
@@ -432,6 +462,11 @@ func setLess(a, b []int) bool {
 	}
 	return false
 }
+
+// maxMinChoices is the most candidates with a minimum for which Extend,
+// without fixed costs, solves every choice of them (2^k solves); with
+// more it searches as with fixed costs.
+const maxMinChoices = 6
 
 // denseDegree is the number of lanes per node from which the priced
 // network is solved from scratch rather than from the network's own

@@ -80,7 +80,9 @@ func bruteSingle(t *testing.T, n *flow.Network, cs []flow.Candidate) float64 {
 }
 
 // TestExtendAgainstBruteForce: on small networks (infeasible ones among
-// them) the chosen lanes give a feasible plan costing what Extend says, no
+// them, some with negative rates, some candidates with a minimum that an
+// opened lane must carry) the chosen lanes give a feasible plan costing
+// what Extend says, no
 // single lane or pair does better (brute force with the LP oracle), the
 // lower bound lies at or below the best over every set of candidates, and
 // an answer called exact is that best.
@@ -122,6 +124,10 @@ func TestExtendAgainstBruteForce(t *testing.T) {
 			}
 			if withFixed {
 				c.Fixed = rng.Int64N(1000)
+			}
+			if i%5 == 2 && k == 2 {
+				// A candidate with a minimum: open, it carries at least that.
+				c.Lower = 1 + rng.Int64N(min(c.Upper, 30))
 			}
 			cs = append(cs, c)
 		}
@@ -487,5 +493,35 @@ func TestExtendShortWithCycle(t *testing.T) {
 	}
 	if _, err := dual.Extend(n, cs, dual.ExtendOptions{}); err == nil || !strings.Contains(err.Error(), "without limit") {
 		t.Fatalf("every candidate open: error %v, want the cost falling without limit", err)
+	}
+}
+
+// TestExtendCandidateMinimum: without fixed costs, a candidate with a
+// minimum it cannot carry (more than the supply) must not stop the others
+// from being opened: every candidate open has no feasible plan, while the
+// cheap lane alone lowers the cost. The best total comes from gonum's LP
+// simplex over every set (internal/oracle).
+func TestExtendCandidateMinimum(t *testing.T) {
+	const no = flow.NoLimit
+	n := &flow.Network{
+		Nodes: []string{"o", "d"}, Supply: []int64{10, -10},
+		Tail: []flow.NodeID{0}, Head: []flow.NodeID{1},
+		Rate: []int64{10}, Lower: []int64{0}, Upper: []int64{no},
+	}
+	cs := []flow.Candidate{
+		{ID: "cheap", Tail: 0, Head: 1, Rate: 1, Upper: no, Same: -1},
+		{ID: "forced", Tail: 0, Head: 1, Rate: 1, Lower: 20, Upper: no, Same: -1},
+	}
+	if lp, err := oracle.MinCost(n.WithLanes(cs)); err != nil || lp.Status != oracle.Infeasible {
+		t.Fatalf("oracle with both: %v %v", lp.Status, err)
+	}
+	x, err := dual.Extend(n, cs, dual.ExtendOptions{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	best := bestOverAllSets(t, n, cs)
+	got := float64(x.Cost.Big().Int64()) / math.Pow10(n.QtyPlaces+n.RatePlaces)
+	if !x.Feasible || !x.Exact || got != best || len(x.Chosen) != 1 || x.Chosen[0] != 0 {
+		t.Fatalf("feasible %v exact %v total %v chosen %v (%s); best over every set %v with the cheap lane", x.Feasible, x.Exact, got, x.Chosen, x.Method, best)
 	}
 }

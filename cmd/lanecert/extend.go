@@ -35,7 +35,9 @@ id). When the network cannot meet its demands the report first proves it:
 the short region, its demand, what can reach it and the units short.
 
 Without fixed costs the answer is one minimum-cost flow over the network and
-all candidates (exact). With fixed costs it is the best single lane and
+all candidates (exact); a candidate with a minimum must carry it when
+opened, so up to 6 of them are tried in every combination (exact), more as
+with fixed costs. With fixed costs it is the best single lane and
 best pair, then lanes added one at a time while that helps, with a lower
 bound on the best possible total. --one-lane looks only for the best single
 lane (exact among single lanes, with or without fixed costs).
