@@ -2,6 +2,7 @@ package dual
 
 import (
 	"fmt"
+	"slices"
 
 	"lanecert/flow"
 )
@@ -25,8 +26,10 @@ type BidResult struct {
 	Feasible bool
 }
 
-// BidSet is the best set of candidates taken together: the optimum with all
-// of them added. Flows[i] is candidate i's quantity (0: not in the set).
+// BidSet is the best set of candidates taken together: the optimum with
+// every candidate without a minimum added, and the cheapest choice of
+// those with a minimum (which must carry it once added; see EvaluateBids).
+// Flows[i] is candidate i's quantity (0: not in the set, or unused).
 type BidSet struct {
 	Flows    []int64
 	Saving   flow.Wide
@@ -43,7 +46,8 @@ type BidSet struct {
 // y that keeps its basis (flow.Basis), then per candidate a copy of the
 // solver's state, the pivots the lane causes and one pass over the lanes;
 // and one more for the set. Candidates with a minimum are each solved
-// warm-started from y instead.
+// warm-started from y instead, and the set is solved once per choice of
+// them (bestBidSet).
 func EvaluateBids(n *flow.Network, y, p []int64, cost flow.Wide, cands []flow.Candidate) ([]BidResult, *BidSet, error) {
 	pr, err := newPricer(n, y, p)
 	if err != nil {
@@ -88,18 +92,97 @@ func EvaluateBids(n *flow.Network, y, p []int64, cost flow.Wide, cands []flow.Ca
 		}
 	}
 	set := &BidSet{Flows: make([]int64, len(cands))}
-	all, err := ws.with(cands)
+	best, idx, err := bestBidSet(ws, cands)
 	if err != nil {
 		return nil, nil, err
 	}
-	set.Feasible = all.ok
+	set.Feasible = best.ok
 	if set.Feasible {
-		copy(set.Flows, all.flows)
-		if set.Saving, err = cost.Sub(all.cost); err != nil {
+		for j, k := range idx {
+			set.Flows[k] = best.flows[j]
+		}
+		if set.Saving, err = cost.Sub(best.cost); err != nil {
 			return nil, nil, fmt.Errorf("dual: saving %w", err)
 		}
 	}
 	return out, set, nil
+}
+
+// bestBidSet returns the optimum of n with the best set of cands added and
+// that set (indexes, increasing). A candidate without a minimum can always
+// be added (it may carry nothing), so every one is; one with a minimum
+// must carry it, so adding it is a choice: every choice of up to
+// maxMinChoices of them is solved and the cheapest kept (ties: the first
+// in binary order of the choices); with more, they are added one at a
+// time, each time the one that lowers the cost most, while one does.
+func bestBidSet(ws *warmSolver, cands []flow.Candidate) (withResult, []int, error) {
+	var withMin, base []int
+	for i, c := range cands {
+		if c.Lower > 0 {
+			withMin = append(withMin, i)
+		} else {
+			base = append(base, i)
+		}
+	}
+	solve := func(extra []int) (withResult, []int, error) {
+		idx := append(append([]int(nil), base...), extra...)
+		slices.Sort(idx)
+		sub := make([]flow.Candidate, len(idx))
+		for j, k := range idx {
+			sub[j] = cands[k]
+		}
+		res, err := ws.with(sub)
+		// (The flows may share the solver's memory: copied.)
+		res.flows = append([]int64(nil), res.flows...)
+		return res, idx, err
+	}
+	better := func(a, b withResult) bool { return a.ok && (!b.ok || a.cost.Cmp(b.cost) < 0) }
+	best, bestIdx, err := solve(nil)
+	if err != nil || len(withMin) == 0 {
+		return best, bestIdx, err
+	}
+	if len(withMin) <= maxMinChoices {
+		for mask := 1; mask < 1<<len(withMin); mask++ {
+			var extra []int
+			for j, k := range withMin {
+				if mask&(1<<j) != 0 {
+					extra = append(extra, k)
+				}
+			}
+			res, idx, err := solve(extra)
+			if err != nil {
+				return withResult{}, nil, err
+			}
+			if better(res, best) {
+				best, bestIdx = res, idx
+			}
+		}
+		return best, bestIdx, nil
+	}
+	var chosen []int
+	in := make([]bool, len(cands))
+	for {
+		var step withResult
+		var stepIdx []int
+		pick := -1
+		for _, k := range withMin {
+			if in[k] {
+				continue
+			}
+			res, idx, err := solve(append(append([]int(nil), chosen...), k))
+			if err != nil {
+				return withResult{}, nil, err
+			}
+			if better(res, best) && (pick < 0 || better(res, step)) {
+				step, stepIdx, pick = res, idx, k
+			}
+		}
+		if pick < 0 {
+			return best, bestIdx, nil
+		}
+		best, bestIdx = step, stepIdx
+		chosen, in[pick] = append(chosen, pick), true
+	}
 }
 
 // warmSolver re-solves n with lanes added: from a kept basis of n's optimum

@@ -2,6 +2,7 @@ package dual_test
 
 import (
 	"math/rand/v2"
+	"slices"
 	"testing"
 
 	"lanecert/dual"
@@ -12,9 +13,10 @@ import (
 )
 
 // TestBidsAgainstOracle adds random candidate lanes to random networks
-// (half of them with negative rates) and compares each bid's saving alone,
-// and the best set's, with the LP oracle's optimum of the extended
-// network; a bid's break-even rate must be where using it starts to pay,
+// (half of them with negative rates; some bids with a minimum) and compares
+// each bid's saving alone, and the best set's, with the LP oracle's
+// optimum of the extended network (for the set: the best over every choice
+// of the bids with a minimum, with all the others); a bid's break-even rate must be where using it starts to pay,
 // and bids that let the cost fall without limit must stop the evaluation
 // with an error.
 func TestBidsAgainstOracle(t *testing.T) {
@@ -42,15 +44,52 @@ func TestBidsAgainstOracle(t *testing.T) {
 			if rng.IntN(2) == 0 {
 				c.Upper = 1 + rng.Int64N(50)
 			}
+			if i%4 == 1 && k < 2 {
+				// A bid with a minimum: once added, it carries at least that.
+				c.Lower = 1 + rng.Int64N(min(c.Upper, 20))
+			}
 			cands = append(cands, c)
+		}
+		// The sets the best set is chosen from: every bid without a
+		// minimum, with each choice of those with one.
+		var withMin, base []int
+		for k, c := range cands {
+			if c.Lower > 0 {
+				withMin = append(withMin, k)
+			} else {
+				base = append(base, k)
+			}
+		}
+		var choices []*oracle.Result
+		for mask := 0; mask < 1<<len(withMin); mask++ {
+			var sub []flow.Candidate
+			for k, c := range cands {
+				if c.Lower == 0 || mask&(1<<slices.Index(withMin, k)) != 0 {
+					sub = append(sub, c)
+				}
+			}
+			lp, err := oracle.MinCost(n.WithLanes(sub))
+			if err != nil {
+				t.Fatal(err)
+			}
+			choices = append(choices, &lp)
 		}
 		res, set, err := dual.EvaluateBids(n, opt.Flow, opt.Potential, opt.Cost, cands)
 		if err != nil {
 			// With negative rates, bids may close a cycle of lanes without
 			// capacity whose rates sum below zero: then, and only then,
-			// the evaluation stops with an error.
-			if lp, _ := oracle.MinCost(n.WithLanes(cands)); !o.NegativeRates || lp.Status != oracle.Unbounded {
-				t.Fatalf("case %d: %v (oracle with every bid: %v)", i, err, lp.Status)
+			// the evaluation stops with an error (a bid alone, or one of
+			// the sets above).
+			fell := false
+			for _, lp := range choices {
+				fell = fell || lp.Status == oracle.Unbounded
+			}
+			for _, c := range cands {
+				lp, _ := oracle.MinCost(n.WithLanes([]flow.Candidate{c}))
+				fell = fell || lp.Status == oracle.Unbounded
+			}
+			if !o.NegativeRates || !fell {
+				t.Fatalf("case %d: %v (no bid or set lets the cost fall without limit)", i, err)
 			}
 			unbounded++
 			continue
@@ -58,8 +97,18 @@ func TestBidsAgainstOracle(t *testing.T) {
 		places := n.QtyPlaces + n.RatePlaces
 		for k, c := range cands {
 			lp, err := oracle.MinCost(n.WithLanes([]flow.Candidate{c}))
-			if err != nil || lp.Status != oracle.Optimal {
-				t.Fatalf("oracle: %v %v", lp.Status, err)
+			if err != nil {
+				t.Fatal(err)
+			}
+			if lp.Status == oracle.Infeasible && c.Lower > 0 {
+				// Its minimum cannot be carried.
+				if res[k].Feasible {
+					t.Fatalf("case %d bid %d: feasible alone, oracle: infeasible", i, k)
+				}
+				continue
+			}
+			if lp.Status != oracle.Optimal || !res[k].Feasible {
+				t.Fatalf("case %d bid %d: feasible %v, oracle %v", i, k, res[k].Feasible, lp.Status)
 			}
 			want, _ := opt.Cost.Sub(res[k].Saving)
 			if !oracle.SameCost(want, places, lp) {
@@ -71,7 +120,7 @@ func TestBidsAgainstOracle(t *testing.T) {
 			// Break-even: at that rate the bid cannot save; one unit below
 			// it, it must (when it has room). Decided exactly: the plan
 			// with the bid unused is optimal, or not (oracle.Improvable).
-			if res[k].HasBreakEven {
+			if res[k].HasBreakEven && c.Lower == 0 {
 				at := c
 				at.Rate = res[k].BreakEven
 				if oracle.Improvable(n.WithLanes([]flow.Candidate{at}), append(append([]int64(nil), opt.Flow...), 0)) {
@@ -83,10 +132,26 @@ func TestBidsAgainstOracle(t *testing.T) {
 				}
 			}
 		}
-		lp, _ := oracle.MinCost(n.WithLanes(cands))
+		// The best set: the cheapest of the choices (exact costs where the
+		// oracle proved them).
+		var best *oracle.Result
+		for _, lp := range choices {
+			if lp.Status != oracle.Optimal {
+				continue
+			}
+			if best == nil || (lp.Exact && best.Exact && lp.ExactCost.Cmp(best.ExactCost) < 0) || (!(lp.Exact && best.Exact) && lp.CostScaled < best.CostScaled) {
+				best = lp
+			}
+		}
+		if (best != nil) != set.Feasible {
+			t.Fatalf("case %d: set feasible %v, oracle finds a feasible choice %v", i, set.Feasible, best != nil)
+		}
+		if best == nil {
+			continue
+		}
 		want, _ := opt.Cost.Sub(set.Saving)
-		if !oracle.SameCost(want, places, lp) {
-			t.Fatalf("case %d: set saving %s, oracle %v", i, n.FormatCost(set.Saving), lp.CostScaled)
+		if !oracle.SameCost(want, places, *best) {
+			t.Fatalf("case %d: set saving %s, oracle's best choice %v", i, n.FormatCost(set.Saving), best.CostScaled)
 		}
 	}
 	if used < 30 || unbounded == 0 {

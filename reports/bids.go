@@ -144,7 +144,7 @@ func WriteBids(w io.Writer, d *BidsDocument, f Format) error {
 	p.head("Best set of bids together")
 	switch {
 	case !d.Set.Feasible:
-		p.line("With every bid added the network is infeasible (a bid's minimum cannot be met).")
+		p.line("No choice of bids gives a feasible plan (a bid's minimum cannot be met).")
 	case len(d.Set.Bids) == 0:
 		p.line("No bid is worth taking: none lowers the cost.")
 	default:
