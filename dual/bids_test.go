@@ -1,6 +1,7 @@
 package dual_test
 
 import (
+	"fmt"
 	"math/rand/v2"
 	"slices"
 	"testing"
@@ -156,5 +157,36 @@ func TestBidsAgainstOracle(t *testing.T) {
 	}
 	if used < 30 || unbounded == 0 {
 		t.Errorf("only %d bids used, %d networks made unbounded by their bids: the test no longer covers both", used, unbounded)
+	}
+}
+
+// TestBidSetManyMinimums: with more bids with a minimum than are tried in
+// every combination, they are added one at a time while the cost falls.
+// Seven bids on the one lane's route, each with a minimum of 2 units:
+// only the cheapest pays (it takes all 10 units, at 1 instead of 10); any
+// other would force 2 units at its dearer rate. Saving worked by hand:
+// 10·(10 − 1) = 90.
+func TestBidSetManyMinimums(t *testing.T) {
+	const no = flow.NoLimit
+	n := &flow.Network{
+		Nodes: []string{"o", "d"}, Supply: []int64{10, -10},
+		Tail: []flow.NodeID{0}, Head: []flow.NodeID{1},
+		Rate: []int64{10}, Lower: []int64{0}, Upper: []int64{no},
+	}
+	var cands []flow.Candidate
+	for k := range 7 {
+		cands = append(cands, flow.Candidate{ID: fmt.Sprint("b", k), Tail: 0, Head: 1, Rate: int64(7 - k), Lower: 2, Upper: no, Same: -1})
+	}
+	opt, err := dual.Optimize(n, nil, nil)
+	if err != nil {
+		t.Fatal(err)
+	}
+	_, set, err := dual.EvaluateBids(n, opt.Flow, opt.Potential, opt.Cost, cands)
+	if err != nil {
+		t.Fatal(err)
+	}
+	want := []int64{0, 0, 0, 0, 0, 0, 10}
+	if !set.Feasible || set.Saving.Cmp(flow.WideFrom(90)) != 0 || !slices.Equal(set.Flows, want) {
+		t.Fatalf("set: feasible %v, saving %s, flows %v; want saving 90, flows %v", set.Feasible, set.Saving.Format(0), set.Flows, want)
 	}
 }
