@@ -116,14 +116,7 @@ func EvaluateBids(n *flow.Network, y, p []int64, cost flow.Wide, cands []flow.Ca
 // in binary order of the choices); with more, they are added one at a
 // time, each time the one that lowers the cost most, while one does.
 func bestBidSet(ws *warmSolver, cands []flow.Candidate) (withResult, []int, error) {
-	var withMin, base []int
-	for i, c := range cands {
-		if c.Lower > 0 {
-			withMin = append(withMin, i)
-		} else {
-			base = append(base, i)
-		}
-	}
+	withMin, base := byMinimum(cands)
 	solve := func(extra []int) (withResult, []int, error) {
 		idx := append(append([]int(nil), base...), extra...)
 		slices.Sort(idx)

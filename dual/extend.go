@@ -130,14 +130,7 @@ func Extend(n *flow.Network, cands []flow.Candidate, opt ExtendOptions) (*Extens
 	}
 	// Candidates with a minimum carry at least that when opened, so
 	// opening one is a choice even without fixed costs.
-	var withMin, noMin []int
-	for i, c := range cands {
-		if c.Lower > 0 {
-			withMin = append(withMin, i)
-		} else {
-			noMin = append(noMin, i)
-		}
-	}
+	withMin, noMin := byMinimum(cands)
 	if !fixed && !opt.SinglesOnly && len(withMin) == 0 {
 		t, err := sv.try(all)
 		if err != nil {
@@ -328,6 +321,19 @@ func Extend(n *flow.Network, cands []flow.Candidate, opt ExtendOptions) (*Extens
 		}
 	}
 	return x, nil
+}
+
+// byMinimum splits the candidates' indexes into those with a minimum and
+// the others, each in order.
+func byMinimum(cands []flow.Candidate) (withMin, noMin []int) {
+	for i, c := range cands {
+		if c.Lower > 0 {
+			withMin = append(withMin, i)
+		} else {
+			noMin = append(noMin, i)
+		}
+	}
+	return withMin, noMin
 }
 
 func hasMinimum(cands []flow.Candidate) bool {
