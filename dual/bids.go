@@ -212,7 +212,7 @@ func (ws *warmSolver) with(cands []flow.Candidate) (withResult, error) {
 			return withResult{}, err
 		}
 		if add.Status != flow.Optimal {
-			return withResult{}, fmt.Errorf("dual: with the bids added the cost falls without limit (a cycle of lanes without capacity)")
+			return withResult{}, fmt.Errorf("dual: with %s added the cost falls without limit (a cycle of lanes without capacity)", laneList(ws.n, "bid", cands))
 		}
 		return withResult{ok: true, cost: add.Cost, flows: add.Extra}, nil
 	}
@@ -222,7 +222,7 @@ func (ws *warmSolver) with(cands []flow.Candidate) (withResult, error) {
 	}
 	switch sol.Status {
 	case flow.Unbounded:
-		return withResult{}, fmt.Errorf("dual: with the bids added the cost falls without limit (a cycle of lanes without capacity)")
+		return withResult{}, fmt.Errorf("dual: with %s added the cost falls without limit (a cycle of lanes without capacity)", laneList(ws.n, "bid", cands))
 	case flow.Infeasible:
 		return withResult{}, nil
 	}

@@ -33,3 +33,6 @@ func SingleBoundsForTest(n *flow.Network, cands []flow.Candidate, cut *flow.Cut)
 func RangesCheckedForTest(n *flow.Network, y []int64, p []int64) (*Sensitivity, error) {
 	return ranges(n, y, p, true)
 }
+
+// LaneList exposes laneList (names of candidate lanes in messages).
+var LaneList = laneList

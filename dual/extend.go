@@ -3,6 +3,7 @@ package dual
 import (
 	"fmt"
 	"sort"
+	"strings"
 
 	"lanecert/flow"
 )
@@ -323,6 +324,32 @@ func Extend(n *flow.Network, cands []flow.Candidate, opt ExtendOptions) (*Extens
 	return x, nil
 }
 
+// laneList names candidate lanes for a message: "bid b7", "bids b1, b2
+// and b3" (what says which), each by its ID or, without one, "FROM to
+// TO"; after five, how many more.
+func laneList(n *flow.Network, what string, cs []flow.Candidate) string {
+	const shown = 5
+	var names []string
+	for i, c := range cs {
+		if i == shown {
+			names = append(names, fmt.Sprintf("%d more", len(cs)-shown))
+			break
+		}
+		name := c.ID
+		if name == "" {
+			name = n.Nodes[c.Tail] + " to " + n.Nodes[c.Head]
+		}
+		names = append(names, name)
+	}
+	switch len(names) {
+	case 0:
+		return "no " + what + "s"
+	case 1:
+		return what + " " + names[0]
+	}
+	return what + "s " + strings.Join(names[:len(names)-1], ", ") + " and " + names[len(names)-1]
+}
+
 // byMinimum splits the candidates' indexes into those with a minimum and
 // the others, each in order.
 func byMinimum(cands []flow.Candidate) (withMin, noMin []int) {
@@ -396,7 +423,7 @@ func (sv *setSolver) try(set []int) (trial, error) {
 		}
 		if add.Status == flow.Unbounded {
 			if sv.unmet == 0 {
-				return t, fmt.Errorf("dual: with candidates added the cost falls without limit (a cycle without capacity)")
+				return t, fmt.Errorf("dual: with %s added the cost falls without limit (a cycle of lanes without capacity)", laneList(n, "candidate", sub))
 			}
 			add = nil
 			sv.x.Solves++
@@ -418,7 +445,7 @@ func (sv *setSolver) try(set []int) (trial, error) {
 		}
 		switch sol.Status {
 		case flow.Unbounded:
-			return t, fmt.Errorf("dual: with candidates added the cost falls without limit (a cycle without capacity)")
+			return t, fmt.Errorf("dual: with %s added the cost falls without limit (a cycle of lanes without capacity)", laneList(n, "candidate", sub))
 		case flow.Infeasible:
 			t.short = sol.Shortfall
 			return t, nil

@@ -453,8 +453,8 @@ func TestExtendCycleOfThree(t *testing.T) {
 	if err == nil {
 		t.Fatalf("no error: feasible %v, cost %s, exact %v, chosen %v", x.Feasible, n.FormatCost(x.Cost), x.Exact, x.Chosen)
 	}
-	if !strings.Contains(err.Error(), "without limit") {
-		t.Fatalf("error %q does not say the cost falls without limit", err)
+	if !strings.Contains(err.Error(), "with candidates ab, bc and ca added the cost falls without limit") {
+		t.Fatalf("error %q does not say that the three together let the cost fall without limit", err)
 	}
 }
 
@@ -523,5 +523,26 @@ func TestExtendCandidateMinimum(t *testing.T) {
 	got := float64(x.Cost.Big().Int64()) / math.Pow10(n.QtyPlaces+n.RatePlaces)
 	if !x.Feasible || !x.Exact || got != best || len(x.Chosen) != 1 || x.Chosen[0] != 0 {
 		t.Fatalf("feasible %v exact %v total %v chosen %v (%s); best over every set %v with the cheap lane", x.Feasible, x.Exact, got, x.Chosen, x.Method, best)
+	}
+}
+
+// TestLaneList: how messages name candidate lanes (format defined here).
+func TestLaneList(t *testing.T) {
+	n := &flow.Network{Nodes: []string{"Plant A", "DC B"}}
+	c := func(id string) flow.Candidate { return flow.Candidate{ID: id, Tail: 0, Head: 1} }
+	for _, tc := range []struct {
+		cs   []flow.Candidate
+		want string
+	}{
+		{nil, "no bids"},
+		{[]flow.Candidate{c("b7")}, "bid b7"},
+		{[]flow.Candidate{c("")}, "bid Plant A to DC B"},
+		{[]flow.Candidate{c("b1"), c("b2")}, "bids b1 and b2"},
+		{[]flow.Candidate{c("b1"), c(""), c("b3")}, "bids b1, Plant A to DC B and b3"},
+		{[]flow.Candidate{c("1"), c("2"), c("3"), c("4"), c("5"), c("6"), c("7")}, "bids 1, 2, 3, 4, 5 and 2 more"},
+	} {
+		if got := dual.LaneList(n, "bid", tc.cs); got != tc.want {
+			t.Errorf("%d lanes: %q, want %q", len(tc.cs), got, tc.want)
+		}
 	}
 }

@@ -575,7 +575,7 @@ func TestExtendFallsWithoutLimit(t *testing.T) {
 	nodes := write("nodes.csv", "node,supply\na,1\nb,0\nc,0\nx,0\nd,-1\n")
 	cands := write("cands.csv", "id,from,to,rate,fixed\nab,a,b,5,100\nbc,b,c,5,100\ncx,c,x,5,100\n")
 	code, out, errText := runCLI(t, "extend", lanes, "--nodes", nodes, "--candidates", cands)
-	if code != exitBadInput || !strings.Contains(errText, "falls without limit") {
+	if code != exitBadInput || !strings.Contains(errText, "with candidates ab, bc and cx added the cost falls without limit") {
 		t.Fatalf("exit %d, stdout %q, stderr %q; want 4 and the cost falling without limit", code, out, errText)
 	}
 }
