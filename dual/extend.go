@@ -163,13 +163,30 @@ func Extend(n *flow.Network, cands []flow.Candidate, opt ExtendOptions) (*Extens
 		if !opt.SinglesOnly && hasNegativeRate(n, cands) {
 			// Some set of candidates may close a cycle of lanes without
 			// capacity whose rates sum below zero, a set the search below
-			// might not try (three lanes or more): then every candidate
-			// open closes it too. (Without negative rates no cycle can.)
-			t, err := sv.try(all)
-			if err != nil {
-				return nil, err
+			// might not try (three lanes or more). With it, every
+			// candidate without a minimum open closes it too, and keeps
+			// the set's plans (such a lane may carry nothing): so each
+			// choice of the candidates with a minimum is tried with all
+			// of those (with more than maxMinChoices of them: none, and
+			// all). (Without negative rates no cycle can.)
+			choices := 1 << len(withMin)
+			if len(withMin) > maxMinChoices {
+				choices = 2
 			}
-			sv.consider(t)
+			for c := 0; c < choices; c++ {
+				set := append([]int(nil), noMin...)
+				for j, k := range withMin {
+					if (len(withMin) > maxMinChoices && c == 1) || (len(withMin) <= maxMinChoices && c&(1<<j) != 0) {
+						set = append(set, k)
+					}
+				}
+				sort.Ints(set)
+				t, err := sv.try(set)
+				if err != nil {
+					return nil, err
+				}
+				sv.consider(t)
+			}
 		}
 		// On an infeasible network a single lane must enter the short
 		// region from outside with room for the units short.

@@ -131,10 +131,11 @@ func TestExtendAgainstBruteForce(t *testing.T) {
 			}
 			cs = append(cs, c)
 		}
-		// With negative rates, candidates may close a cycle of lanes
-		// without capacity whose rates sum below zero (the union of all
-		// of them does when any set does).
-		if all, _ := oracle.MinCost(n.WithLanes(cs)); all.Status == oracle.Unbounded {
+		// With negative rates, a set of candidates may close a cycle of
+		// lanes without capacity whose rates sum below zero: then, and
+		// only then, Extend stops with an error. (Every set is solved:
+		// with minimums, the union of all may have no plan at all.)
+		if fallingSet(t, n, cs) {
 			if _, err := dual.Extend(n, cs, dual.ExtendOptions{}); err != nil {
 				unbounded++
 				continue
@@ -324,6 +325,28 @@ func TestSingleBounds(t *testing.T) {
 	}
 }
 
+// fallingSet reports whether the network with some set of the candidates
+// has plans whose cost falls without limit (the LP oracle over every set).
+func fallingSet(t *testing.T, n *flow.Network, cs []flow.Candidate) bool {
+	t.Helper()
+	for mask := 0; mask < 1<<len(cs); mask++ {
+		var sub []flow.Candidate
+		for k, c := range cs {
+			if mask&(1<<k) != 0 {
+				sub = append(sub, c)
+			}
+		}
+		lp, err := oracle.MinCost(n.WithLanes(sub))
+		if err != nil {
+			t.Fatal(err)
+		}
+		if lp.Status == oracle.Unbounded {
+			return true
+		}
+	}
+	return false
+}
+
 // bestOverAllSets is the best total (setTotal) over every set of
 // candidates; +Inf when none is feasible. For a handful of candidates.
 func bestOverAllSets(t *testing.T, n *flow.Network, cs []flow.Candidate) float64 {
@@ -428,7 +451,8 @@ func TestExtendBoundCirculation(t *testing.T) {
 // and the relaxation (fixed costs spread over the most a lane can carry)
 // sees no negative cycle either. The cost with all three open falls
 // without limit (gonum's LP simplex agrees), so Extend must say so rather
-// than give an answer, let alone call one exact.
+// than give an answer, let alone call one exact; also when a fourth
+// candidate's minimum leaves no plan with every candidate open.
 func TestExtendCycleOfThree(t *testing.T) {
 	const no = flow.NoLimit
 	n := &flow.Network{
@@ -455,6 +479,17 @@ func TestExtendCycleOfThree(t *testing.T) {
 	}
 	if !strings.Contains(err.Error(), "with candidates ab, bc and ca added the cost falls without limit") {
 		t.Fatalf("error %q does not say that the three together let the cost fall without limit", err)
+	}
+	// A fourth candidate whose minimum (20) no plan can carry: with every
+	// candidate open there is no plan at all, yet the three still let the
+	// cost fall without limit.
+	forced := flow.Candidate{ID: "ad", Tail: 0, Head: 3, Rate: 1, Lower: 20, Upper: no, Fixed: 100, Same: -1}
+	cs4 := append(append([]flow.Candidate(nil), cs...), forced)
+	if lp, err := oracle.MinCost(n.WithLanes(cs4)); err != nil || lp.Status != oracle.Infeasible {
+		t.Fatalf("oracle with all four: %v %v", lp.Status, err)
+	}
+	if x, err := dual.Extend(n, cs4, dual.ExtendOptions{}); err == nil || !strings.Contains(err.Error(), "with candidates ab, bc and ca added the cost falls without limit") {
+		t.Fatalf("with a fourth, forced candidate: error %v (answer %+v)", err, x)
 	}
 }
 
