@@ -143,19 +143,8 @@ func Extend(n *flow.Network, cands []flow.Candidate, opt ExtendOptions) (*Extens
 		// Every candidate without a minimum is free to open (it may carry
 		// nothing): each choice of those with a minimum is solved with
 		// all of them.
-		for mask := 0; mask < 1<<len(withMin); mask++ {
-			set := append([]int(nil), noMin...)
-			for j, k := range withMin {
-				if mask&(1<<j) != 0 {
-					set = append(set, k)
-				}
-			}
-			sort.Ints(set)
-			t, err := sv.try(set)
-			if err != nil {
-				return nil, err
-			}
-			sv.consider(t)
+		if err := sv.tryChoices(noMin, withMin); err != nil {
+			return nil, err
 		}
 		x.Method = fmt.Sprintf("one minimum-cost flow for each choice of the %d candidates with a minimum, with every other candidate (no fixed costs: exact)", len(withMin))
 		x.Exact = true
@@ -169,23 +158,8 @@ func Extend(n *flow.Network, cands []flow.Candidate, opt ExtendOptions) (*Extens
 			// choice of the candidates with a minimum is tried with all
 			// of those (with more than maxMinChoices of them: none, and
 			// all). (Without negative rates no cycle can.)
-			choices := 1 << len(withMin)
-			if len(withMin) > maxMinChoices {
-				choices = 2
-			}
-			for c := 0; c < choices; c++ {
-				set := append([]int(nil), noMin...)
-				for j, k := range withMin {
-					if (len(withMin) > maxMinChoices && c == 1) || (len(withMin) <= maxMinChoices && c&(1<<j) != 0) {
-						set = append(set, k)
-					}
-				}
-				sort.Ints(set)
-				t, err := sv.try(set)
-				if err != nil {
-					return nil, err
-				}
-				sv.consider(t)
+			if err := sv.tryChoices(noMin, withMin); err != nil {
+				return nil, err
 			}
 		}
 		// On an infeasible network a single lane must enter the short
@@ -480,6 +454,32 @@ func (sv *setSolver) try(set []int) (trial, error) {
 		}
 	}
 	return t, nil
+}
+
+// tryChoices solves the network with every candidate of noMin and each
+// choice of those of withMin (every choice when there are at most
+// maxMinChoices, else none and all of them), keeping the best (consider).
+func (sv *setSolver) tryChoices(noMin, withMin []int) error {
+	every := len(withMin) <= maxMinChoices
+	choices := 2
+	if every {
+		choices = 1 << len(withMin)
+	}
+	for c := 0; c < choices; c++ {
+		set := append([]int(nil), noMin...)
+		for j, k := range withMin {
+			if (every && c&(1<<j) != 0) || (!every && c == 1) {
+				set = append(set, k)
+			}
+		}
+		sort.Ints(set)
+		t, err := sv.try(set)
+		if err != nil {
+			return err
+		}
+		sv.consider(t)
+	}
+	return nil
 }
 
 // better reports whether t beats the best so far (lower total; on a tie,
