@@ -26,3 +26,14 @@ func SolveSweeping(n *Network, start []int64) (*Solution, error) {
 func SolveWithoutRounds(n *Network, start []int64) (*Solution, error) {
 	return Solve(n, SolveOptions{Start: start, noRounds: true})
 }
+
+// Piled reports whether Solve's warm start searched once more after its
+// first search refused a pile of lanes (see pileRefusals).
+func Piled(sol *Solution) bool { return sol.piled }
+
+// SolvePiling is Solve from start with every first search of the warm
+// start by lists that refuses a lane taken for a pile: the refused lanes
+// are cancelled and the search made again, even after rounds inside parts.
+func SolvePiling(n *Network, start []int64) (*Solution, error) {
+	return Solve(n, SolveOptions{Start: start, pileAlways: true})
+}

@@ -87,6 +87,9 @@ type SolveOptions struct {
 	// free lanes closing cycles and lanes with the wrong sign inside
 	// parts, and the free lanes left must be pivoted in).
 	noRounds bool
+	// pileAlways takes every first search of a warm start by lists that
+	// refuses an arc for a pile (tests: see pileRefusals).
+	pileAlways bool
 }
 
 // Solution is the result of Solve.
@@ -138,6 +141,7 @@ type Solution struct {
 	sim    *simplex // with SolveOptions.keepSim
 	sifted bool     // the warm start sifted (tests)
 	swept  bool     // the warm start searched by sweeps (tests)
+	piled  bool     // the warm start searched again after a pile (tests)
 }
 
 // Arc states. An arc that is not in the tree is at its lower bound
@@ -247,7 +251,9 @@ type simplex struct {
 	keep        bool // SolveOptions.Keep
 	sweepAlways bool // SolveOptions.sweepAlways
 	noRounds    bool // SolveOptions.noRounds
+	pileAlways  bool // SolveOptions.pileAlways
 	swept       bool // the warm start searched by sweeps
+	piled       bool // the warm start searched again after a pile
 }
 
 // ends returns the tail and head of arc a.
@@ -358,12 +364,13 @@ func (s *simplex) costOf(a int32) int64 {
 // an optimal tree. When no lane inside a part had to be cancelled, lanes
 // the search finds closing cycles of negative cost (it refuses them) are
 // pivoted into that tree and the lists and the search are made once more
-// from the new plan (one round of cancelling in all, maxRounds); then
-// block search finishes. A plan that is optimal except for a few cycles
-// thus needs four or five passes over the lanes, one or two searches over
-// the lanes at a bound, a few pivots per cycle and the final pricing
-// (skipped when the last search, refusing nothing, reached every part:
-// its tree is then optimal).
+// from the new plan (one round of cancelling in all, maxRounds; one more
+// when the first search refused a pile of lanes on its root part, see
+// pileRefusals); then block search finishes. A plan that is optimal
+// except for a few cycles thus needs four or five passes over the lanes,
+// one or two searches over the lanes at a bound, a few pivots per cycle
+// and the final pricing (skipped when the last search, refusing nothing,
+// reached every part: its tree is then optimal).
 //
 // On a dense network (at least 32,768 lanes and 32 per node, see
 // siftMinLanes) whose supply equals its demand and whose lanes have no
@@ -440,7 +447,7 @@ func Solve(n *Network, opt SolveOptions) (*Solution, error) {
 	}
 	s.progress, s.placing = opt.Progress, opt.Placing
 	s.keep = opt.Keep
-	s.sweepAlways, s.noRounds = opt.sweepAlways, opt.noRounds
+	s.sweepAlways, s.noRounds, s.pileAlways = opt.sweepAlways, opt.noRounds, opt.pileAlways
 	sol := &Solution{}
 
 	warm, proved := false, false
@@ -464,6 +471,7 @@ func Solve(n *Network, opt SolveOptions) (*Solution, error) {
 	}
 	sol.WarmStarted = warm
 	sol.swept = warm && s.swept
+	sol.piled = warm && s.piled
 	if warm {
 		if err := s.computePotentialsChecked(); err != nil {
 			return nil, err
@@ -2083,11 +2091,14 @@ func (s *simplex) warmStart(x []int64) (bool, []int32, bool, bool, error) {
 			continue
 		}
 		pl, inside := s.buildPartLists(cnt, comp, rho)
-		try, proved := s.completeTree(forest, comp, rho, pl, inside)
-		if len(try) > 0 && round < maxRounds {
+		try, proved, pile := s.completeTree(forest, comp, rho, pl, inside)
+		if len(try) > 0 && (round < maxRounds || pile && !s.piled) {
 			// Lanes the search found closing cycles of negative cost
 			// (across parts, or inside one): pivot them into the tree
-			// just built, then search again from the new plan.
+			// just built, then search again from the new plan. (Once
+			// more after a pile on the search's root part: see
+			// pileRefusals.)
+			s.piled = s.piled || round >= maxRounds
 			if unb, err := cancelInTree(try); err != nil || unb {
 				return true, nil, false, unb, err
 			}
@@ -2320,13 +2331,14 @@ func partMembers(comp []int32, nn int) (cstart, members []int32) {
 // arcs at a bound inside parts with the wrong sign of reduced cost. It
 // returns, sorted, up to maxRefused arcs found closing cycles of negative
 // cost: arcs between parts the search refused, and those of inside. It
-// also reports whether the tree is proved optimal: when nothing was
-// refused, one search reached every part and ran to the end (not capped,
-// unchecked arithmetic), every listed arc was read after the offset of its
-// part was final and kept the right sign, and the lists hold every arc at
-// a bound. Time O(|V|) plus the search, capped at about eight passes over
+// also reports whether the first search made a pile of refusals on its
+// root part (see pileRefusals) and whether the tree is proved optimal:
+// when nothing was refused, one search reached every part and ran to the
+// end (not capped, unchecked arithmetic), every listed arc was read after
+// the offset of its part was final and kept the right sign, and the lists
+// hold every arc at a bound. Time O(|V|) plus the search, capped at about eight passes over
 // the lists.
-func (s *simplex) completeTree(forest, comp []int32, rho []int64, pl partLists, inside []int32) ([]int32, bool) {
+func (s *simplex) completeTree(forest, comp []int32, rho []int64, pl partLists, inside []int32) (refused []int32, proved, pile bool) {
 	nn := s.nNodes
 	q := newPartSearch(nn, !s.checked)
 	q.limit = 8*(len(pl.list)+nn) + 1024
@@ -2362,7 +2374,9 @@ func (s *simplex) completeTree(forest, comp []int32, rho []int64, pl partLists, 
 				}
 			}
 		}
+		q.root = first
 		search(first)
+		pile = q.nref >= pileRefusals && q.rootRef >= q.nref-q.nref/pileShare || s.pileAlways && q.nref > 0
 	}
 	// Parts not reached (or dropped after the search was capped) start
 	// searches of their own, hanging from R.
@@ -2388,10 +2402,31 @@ func (s *simplex) completeTree(forest, comp []int32, rho []int64, pl partLists, 
 		}
 	}
 	s.setTree(tree)
-	proved := len(q.refused) == 0 && q.improve && q.cur == 1
+	proved = len(q.refused) == 0 && q.improve && q.cur == 1
 	slices.Sort(q.refused)
-	return slices.Compact(q.refused), proved
+	return slices.Compact(q.refused), proved, pile
 }
+
+// A first search that refuses at least pileRefusals times (counting each
+// time an arc is refused), all but at most one in pileShare of them arcs
+// that would raise the search's root part, has made a pile: the
+// root part's own potentials are wrong (a lane inside it, strictly between
+// its bounds, should be at a bound), every part the search hangs below it
+// inherits the error, and block search would need thousands of pivots to
+// undo the tree built from them. A warm start then cancels the refused
+// lanes and searches once more, even after rounds inside parts (which
+// maxRounds does not allow otherwise). When the refusals spread over
+// other parts, the plan has several wrong lanes, a second search refuses
+// as many again, and it does not pay. Counted on the repairs of
+// BENCHMARKS.md (eighth session): netgen_a1e5 seed 2006, perturbation
+// seed 14, refused 6,748 times, 99.9 % through the root (3,177 pivots;
+// 170 with the second search); the sparse transportation instances
+// refused up to 49,421 times, at most 94 % through the root; the general
+// networks' other repairs refused at most 281 times.
+const (
+	pileRefusals = 2 * maxRefused
+	pileShare    = 100
+)
 
 // partSearch is the label-correcting search of completeTree over the
 // parts of a forest (indexed by their smallest node): a part's lab is
@@ -2420,6 +2455,10 @@ type partSearch struct {
 	work, limit int
 	cur         int32 // the current search's number
 	refused     []int32
+	// nref counts the arcs refused (each time), rootRef those that would
+	// have raised root, the first search's part.
+	nref, rootRef int
+	root          int32
 }
 
 type searchPart struct {
@@ -2510,6 +2549,10 @@ func (q *partSearch) refuse(a int32) {
 func (q *partSearch) raise(c, d, a int32, nl int64) {
 	pd := &q.ps[d]
 	if pd.srch == q.cur && pd.act && !q.detach(d, c) {
+		q.nref++
+		if d == q.root {
+			q.rootRef++
+		}
 		q.refuse(a)
 		return
 	}

@@ -1416,6 +1416,64 @@ func TestSolveNoRoundsOracle(t *testing.T) {
 	})
 }
 
+// TestSolvePileRepair makes the warm start search a second time after
+// any refusal of its first search by lists (Solve does so only after a
+// pile of refusals on the search's root part, see pileRefusals: the
+// refused lanes are cancelled in the tree of the first search, after the
+// rounds inside parts, and the lists and the search are made again from
+// the new plan). Plans moved around 10 cycles from the optimum
+// (netgen.Perturb) of small general and transportation networks, some
+// with excess supply, must be repaired to the cost of gonum's LP simplex
+// (internal/oracle; the two smallest networks) and the cold solve,
+// with a certificate the independent checker accepts.
+func TestSolvePileRepair(t *testing.T) {
+	piled, solves := 0, 0
+	for seed := uint64(1); seed <= uint64(longrun.Cases(t, 12)); seed++ {
+		for k, n := range []*flow.Network{
+			netgen.General(seed, 25, 120, 4, 4, 0.3, 100),
+			netgen.Transport(seed, 12, 15, 120, 1000),
+			netgen.General(seed+100, 40, 240, 6, 6, 0.3, 100),
+			withExcess(netgen.General(seed+200, 50, 300, 6, 5, 0.5, 20), 40),
+			netgen.General(seed+300, 400, 3000, 30, 30, 0.3, 100),
+		} {
+			name := fmt.Sprintf("seed %d, network %d", seed, k)
+			sol := solveOptimal(t, n)
+			var res *oracle.Result // (the LP takes seconds on the others)
+			if k < 2 {
+				r, _ := oracleAndCold(t, name, n)
+				res = &r
+			}
+			for ps := uint64(0); ps < 4; ps++ {
+				y := netgen.Perturb(longrun.Seed(t, seed*10+ps), n, sol.Flow, sol.InTree, 10)
+				w, err := flow.SolvePiling(n, y)
+				if err != nil {
+					t.Fatalf("%s, perturbation %d: %v", name, ps, err)
+				}
+				solves++
+				if flow.Piled(w) {
+					piled++
+				}
+				pname := fmt.Sprintf("%s, perturbation %d", name, ps)
+				if res != nil {
+					checkWarm(t, pname, n, w, sol, *res)
+					continue
+				}
+				if !w.WarmStarted {
+					t.Fatalf("%s: not warm started", pname)
+				}
+				checkOptimal(t, n, w)
+				if w.Cost.Cmp(sol.Cost) != 0 {
+					t.Fatalf("%s: cost %s, cold %s", pname, w.Cost.Format(0), sol.Cost.Format(0))
+				}
+			}
+		}
+	}
+	t.Logf("%d of %d repairs searched again after a pile", piled, solves)
+	if piled < solves/4 {
+		t.Errorf("only %d of %d repairs searched again after a pile", piled, solves)
+	}
+}
+
 // TestSolveSweepOracle forces the warm start's search by sweeps (which
 // Solve keeps for dense networks of sweepMinLanes lanes and more) on small
 // random networks, with excess supply, lane minimums, parallel lanes and
