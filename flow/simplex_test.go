@@ -1428,7 +1428,8 @@ func TestSolveNoRoundsOracle(t *testing.T) {
 // with a certificate the independent checker accepts.
 func TestSolvePileRepair(t *testing.T) {
 	piled, solves := 0, 0
-	for seed := uint64(1); seed <= uint64(longrun.Cases(t, 12)); seed++ {
+	for i := uint64(1); i <= uint64(longrun.Cases(t, 12)); i++ {
+		seed := longrun.Seed(t, i)
 		for k, n := range []*flow.Network{
 			netgen.General(seed, 25, 120, 4, 4, 0.3, 100),
 			netgen.Transport(seed, 12, 15, 120, 1000),
@@ -1444,7 +1445,7 @@ func TestSolvePileRepair(t *testing.T) {
 				res = &r
 			}
 			for ps := uint64(0); ps < 4; ps++ {
-				y := netgen.Perturb(longrun.Seed(t, seed*10+ps), n, sol.Flow, sol.InTree, 10)
+				y := netgen.Perturb(seed*10+ps, n, sol.Flow, sol.InTree, 10)
 				w, err := flow.SolvePiling(n, y)
 				if err != nil {
 					t.Fatalf("%s, perturbation %d: %v", name, ps, err)
