@@ -1441,7 +1441,10 @@ func TestSolvePileRepair(t *testing.T) {
 			sol := solveOptimal(t, n)
 			var res *oracle.Result // (the LP takes seconds on the others)
 			if k < 2 {
-				r, _ := oracleAndCold(t, name, n)
+				r, err := oracle.MinCost(n)
+				if err != nil {
+					t.Fatalf("%s: oracle: %v", name, err)
+				}
 				res = &r
 			}
 			for ps := uint64(0); ps < 4; ps++ {
