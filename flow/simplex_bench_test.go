@@ -9,6 +9,7 @@ import (
 	"strings"
 	"sync"
 	"testing"
+	"time"
 
 	"lanecert/flow"
 	"lanecert/internal/netgen"
@@ -88,13 +89,17 @@ func benchSolve(b *testing.B, cases []*benchCase) {
 			c.load(b)
 			b.ReportAllocs()
 			var piv int64
+			var med medianClock
 			for b.Loop() {
+				med.start()
 				sol, err := flow.Solve(c.net, flow.SolveOptions{})
+				med.stop()
 				if err != nil || sol.Cost.Cmp(c.opt.Cost) != 0 {
 					b.Fatal("wrong answer")
 				}
 				piv = sol.Pivots
 			}
+			med.report(b)
 			b.ReportMetric(float64(piv), "pivots")
 			b.ReportMetric(float64(len(c.net.Tail)), "lanes")
 			b.Logf("%s: optimal cost %s (scale %d)", c.name, c.opt.Cost.Format(0), c.net.QtyPlaces+c.net.RatePlaces)
@@ -108,13 +113,17 @@ func benchSolve(b *testing.B, cases []*benchCase) {
 				c.load(b)
 				b.ReportAllocs()
 				var piv int64
+				var med medianClock
 				for b.Loop() {
+					med.start()
 					sol, err := flow.Solve(c.net, flow.SolveOptions{Start: c.starts[i]})
+					med.stop()
 					if err != nil || !sol.WarmStarted || sol.Cost.Cmp(c.opt.Cost) != 0 {
 						b.Fatal("wrong answer")
 					}
 					piv = sol.Pivots
 				}
+				med.report(b)
 				b.ReportMetric(float64(piv), "pivots")
 			})
 		}
@@ -122,6 +131,38 @@ func benchSolve(b *testing.B, cases []*benchCase) {
 }
 
 func BenchmarkSolve(b *testing.B) { benchSolve(b, benchCases) }
+
+// medianClock times each solve of a benchmark loop, so that the benchmark
+// can report the median solve ("med-ns/op") beside the mean (ns/op): the
+// reference solver of the measuring kit reports the median of its
+// repeated solves, and on a noisy machine a mean takes in every stall.
+type medianClock struct {
+	t0 time.Time
+	ns []float64
+}
+
+func (m *medianClock) start() { m.t0 = time.Now() }
+func (m *medianClock) stop()  { m.ns = append(m.ns, float64(time.Since(m.t0).Nanoseconds())) }
+
+// report adds the median as the metric "med-ns/op" (the mean of the
+// middle two for an even count).
+func (m *medianClock) report(b *testing.B) {
+	if len(m.ns) == 0 {
+		return
+	}
+	b.ReportMetric(medianOf(m.ns), "med-ns/op")
+}
+
+// medianOf returns the median of xs (the mean of the middle two for an
+// even length), sorting xs.
+func medianOf(xs []float64) float64 {
+	slices.Sort(xs)
+	n := len(xs)
+	if n%2 == 1 {
+		return xs[n/2]
+	}
+	return (xs[n/2-1] + xs[n/2]) / 2
+}
 
 // BenchmarkSolveFiles solves every .min file in $LANECERT_BENCH_DIR (for
 // side-by-side runs with other solvers on the same files; skipped when
@@ -151,6 +192,23 @@ func BenchmarkSolveFiles(b *testing.B) {
 			return n
 		}}
 		benchSolve(b, []*benchCase{c})
+	}
+}
+
+// TestMedianOf checks the median of the benchmark loops (definition
+// above; common practice for an even count).
+func TestMedianOf(t *testing.T) {
+	for _, c := range []struct {
+		in   []float64
+		want float64
+	}{
+		{[]float64{7}, 7},
+		{[]float64{9, 1, 5}, 5},
+		{[]float64{40, 10, 20, 1000}, 30},
+	} {
+		if got := medianOf(append([]float64(nil), c.in...)); got != c.want {
+			t.Errorf("medianOf(%v) = %v, want %v", c.in, got, c.want)
+		}
 	}
 }
 

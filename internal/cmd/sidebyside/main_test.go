@@ -22,6 +22,7 @@ BenchmarkSolveFiles/net_a/cold-2         	       5	 136000000 ns/op	    100000 l
 BenchmarkSolveFiles/net_a/repair10-2         	      10	  25107234 ns/op	        20.00 pivots	 8150799 B/op	     157 allocs/op
 BenchmarkSolveFiles/net_a/repair10s12-2      	      10	  13683112 ns/op	        11.00 pivots	 5388849 B/op	     102 allocs/op
 BenchmarkSolveFiles/net_a/repair10s9-2      	      10	  1500000 ns/op	        3170 pivots	 5388849 B/op	     102 allocs/op
+BenchmarkSolveFiles/net_a/repair10s13-2      	      10	  2600000 ns/op	   2100000 med-ns/op	        41.00 pivots	 5388849 B/op	     102 allocs/op
 BenchmarkSolveFiles/net_b/cold-2         	       5	 1 ns/op	    1 lanes	     1 pivots
 PASS
 `
@@ -36,11 +37,12 @@ func TestParseBench(t *testing.T) {
 		"repair10":    {25107234, 20},
 		"repair10s12": {13683112, 11},
 		"repair10s9":  {1500000, 3170},
+		"repair10s13": {2100000, 41}, // the median, not the mean
 	}
 	if !reflect.DeepEqual(got, want) {
 		t.Fatalf("got %v\nwant %v", got, want)
 	}
-	if keys := repairKeys(got); !reflect.DeepEqual(keys, []string{"repair10", "repair10s9", "repair10s12"}) {
+	if keys := repairKeys(got); !reflect.DeepEqual(keys, []string{"repair10", "repair10s9", "repair10s12", "repair10s13"}) {
 		t.Fatalf("repair keys in seed order: %v", keys)
 	}
 	for _, bad := range []string{
