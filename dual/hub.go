@@ -1,41 +1,105 @@
 package dual
 
 import (
+	"cmp"
 	"fmt"
+	"slices"
 	"sort"
 
 	"lanecert/flow"
 )
 
-// minHubSources is the number of source pieces from which searching via a
-// hub (two extra full searches) pays.
+// minHubSources is the number of source pieces from which searching via
+// hubs (two extra full searches each) pays.
 const minHubSources = 8
 
-// hubDist holds the distances to and from a hub: the piece with the most
-// neighbouring pieces. Every route through the hub from a to b costs at
-// least to[a] + from[b], and that route exists, so the distance from a to
-// b is the lesser of that and the distance with the hub left out.
-type hubDist struct {
-	piece    int32
-	to, from []int64
+// hubRule says which pieces become hubs: the piece with the most
+// neighbouring pieces, then the next ones in that order while they have at
+// least 1/share of the first one's neighbours and at least minDegree, up
+// to max hubs in all (0: none, every search runs to its targets).
+type hubRule struct {
+	max, share, minDegree int32
 }
 
+// defaultHubs is the rule Ranges uses.
+func defaultHubs() hubRule { return hubRule{max: 8, share: 8, minDegree: 64} }
+
+// hubDist holds the distances to and from the hubs: the pieces with the
+// most neighbouring pieces. Every route from piece a to piece b through
+// hub h costs at least to[h][a] + from[h][b], and that route exists, so
+// the distance from a to b is the least of those sums and of the distance
+// with every hub left out.
+//
+// The pieces of a degenerate optimum are often one or two large pieces
+// (most of the lanes in use) and thousands of single nodes around them.
+// With one hub, the searches from the nodes next to the second large
+// piece were bounded only through the first and ran 30 times as long
+// (general_1e5 solved with blocks of twice the usual size); every large
+// piece is therefore a hub.
+//
+// Each hub also keeps its two trees of cheapest routes: toPred[h][v] is the
+// first edge (an index into ranger.from) of v's route to the hub,
+// fromPred[h][v] the last edge of the hub's route to v (-1 at the hub and
+// where unreached), so that a route through a hub can be named and checked
+// edge by edge.
+type hubDist struct {
+	pieces           []int32
+	index            []int32 // per piece: its hub number, or -1
+	to, from         [][]int64
+	toPred, fromPred [][]int32
+	usable           []bool // per hub, in the current search
+}
+
+// newHub chooses the hubs and searches from and to each. O(h·(k + merged
+// edges) log k) for h hubs.
 func (r *ranger) newHub() (*hubDist, error) {
-	h := &hubDist{piece: -1}
-	most := int32(-1)
-	for c := int32(0); int(c) < r.k; c++ {
-		if d := r.fwdG.start[c+1] - r.fwdG.start[c] + r.revG.start[c+1] - r.revG.start[c]; d > most {
-			h.piece, most = c, d
+	h := &hubDist{index: make([]int32, r.k)}
+	for c := range h.index {
+		h.index[c] = -1
+	}
+	for _, c := range r.hubPieces(r.hubs, -1) {
+		to, toPred, err := r.allDistPred(c, true)
+		if err != nil {
+			return nil, err
 		}
+		from, fromPred, err := r.allDistPred(c, false)
+		if err != nil {
+			return nil, err
+		}
+		h.index[c] = int32(len(h.pieces))
+		h.pieces = append(h.pieces, c)
+		h.to, h.toPred = append(h.to, to), append(h.toPred, toPred)
+		h.from, h.fromPred = append(h.from, from), append(h.fromPred, fromPred)
 	}
-	var err error
-	if h.to, err = r.allDist(h.piece, true, -1); err != nil {
-		return nil, err
-	}
-	if h.from, err = r.allDist(h.piece, false, -1); err != nil {
-		return nil, err
-	}
+	r.hub = h
 	return h, nil
+}
+
+// hubPieces returns the hubs rule chooses, leaving out piece skip (-1:
+// none): at most rule.max pieces, most neighbouring pieces first (ties:
+// least number). O(k log k).
+func (r *ranger) hubPieces(rule hubRule, skip int32) []int32 {
+	if rule.max <= 0 {
+		return nil
+	}
+	deg := make([]int32, r.k)
+	order := make([]int32, 0, r.k)
+	for c := int32(0); int(c) < r.k; c++ {
+		if c == skip {
+			continue
+		}
+		deg[c] = r.fwdG.start[c+1] - r.fwdG.start[c] + r.revG.start[c+1] - r.revG.start[c]
+		order = append(order, c)
+	}
+	slices.SortStableFunc(order, func(a, b int32) int { return cmp.Compare(deg[b], deg[a]) })
+	var hubs []int32
+	for i, c := range order {
+		if i > 0 && (i == int(rule.max) || deg[c] < rule.minDegree || int64(rule.share)*int64(deg[c]) < int64(deg[order[0]])) {
+			break
+		}
+		hubs = append(hubs, c)
+	}
+	return hubs
 }
 
 // allDist returns the distances from piece src to every piece (reverse: to
@@ -70,10 +134,47 @@ func (r *ranger) allDist(src int32, reverse bool, skip int32) ([]int64, error) {
 	return append([]int64(nil), r.dist[:r.k]...), nil
 }
 
+// allDistPred is allDist without a piece left out, also returning the
+// tree of the routes found: per piece the edge by which the search reached
+// it (the least numbered among equally cheap ones; -1 at src and where
+// unreached). Forward, that is the last edge of the route from src;
+// reverse, the first edge of the route to src.
+func (r *ranger) allDistPred(src int32, reverse bool) ([]int64, []int32, error) {
+	r.searches++
+	r.resetSearch()
+	pg := &r.fwdG
+	if reverse {
+		pg = &r.revG
+	}
+	r.dist[src] = 0
+	r.touched = append(r.touched, src)
+	r.heap.push(pieceItem{0, src})
+	for len(r.heap) > 0 {
+		it := r.heap.pop()
+		u := it.piece
+		if r.settled[u] || it.d != r.dist[u] {
+			continue
+		}
+		r.settled[u] = true
+		for c := pg.start[u]; c < pg.start[u+1]; c++ {
+			v := pg.to[c]
+			if r.settled[v] {
+				continue
+			}
+			nd, err := flow.AddChecked(it.d, pg.w[c])
+			if err != nil {
+				return nil, nil, fmt.Errorf("dual: route cost %w", err)
+			}
+			r.relax(v, nd, pg.rep[c])
+		}
+	}
+	return append([]int64(nil), r.dist[:r.k]...), append([]int32(nil), r.pred[:r.k]...), nil
+}
+
 // resetSearch clears the state of the last search.
 func (r *ranger) resetSearch() {
 	for _, v := range r.touched {
-		r.dist[v], r.settled[v], r.pred[v] = unreached, false, -1
+		r.dist[v], r.settled[v], r.pred[v], r.viaHub[v] = unreached, false, -1, -1
 	}
 	r.touched = r.touched[:0]
 	r.heap = r.heap[:0]
@@ -105,19 +206,21 @@ func (r *ranger) offerFrom(v int32, d, w int64, tag int32) error {
 }
 
 // hubSearch sets r.dist[t] for each target piece t to the distance from
-// piece src (no predecessors): the lesser of the route through the hub and
-// a search from src with the hub left out, stopped once every target not
-// yet settled has a route through the hub no dearer than the search's
-// frontier.
+// piece src: the least of the routes through the hubs and of a search from
+// src that leaves the hubs out, stopped once every target not yet settled
+// has a route through a hub no dearer than the search's frontier. The
+// route found to t is the search's (r.pred) or, when r.viaHub[t] >= 0, the
+// route through that hub (firstLane reads either). A search from a hub is
+// not needed: its distances are known.
 func (r *ranger) hubSearch(h *hubDist, src int32, targets []int32) error {
 	r.searches++
 	r.resetSearch()
 	r.stamp++
-	// via[t]: the cost through the hub (unreached: none), in r.pred's place
-	// kept in a local list sorted by decreasing cost, unreachable first.
+	r.viaSrc = src
 	type goal struct {
 		piece int32
-		via   int64
+		via   int64 // the least cost through a hub (unreached: none)
+		hub   int32
 	}
 	var goals []goal
 	for _, t := range targets {
@@ -125,19 +228,27 @@ func (r *ranger) hubSearch(h *hubDist, src int32, targets []int32) error {
 			continue
 		}
 		r.want[t] = r.stamp
-		via := unreached
-		if src == h.piece {
-			via = h.from[t]
-		} else if t == h.piece {
-			via = h.to[src]
-		} else if h.to[src] != unreached && h.from[t] != unreached {
-			var err error
-			if via, err = flow.AddChecked(h.to[src], h.from[t]); err != nil {
-				return fmt.Errorf("dual: route cost %w", err)
+		gl := goal{piece: t, via: unreached, hub: -1}
+		for i, hp := range h.pieces {
+			d := unreached
+			switch {
+			case src == hp:
+				d = h.from[i][t]
+			case t == hp:
+				d = h.to[i][src]
+			case h.to[i][src] != unreached && h.from[i][t] != unreached:
+				var err error
+				if d, err = flow.AddChecked(h.to[i][src], h.from[i][t]); err != nil {
+					return fmt.Errorf("dual: route cost %w", err)
+				}
+			}
+			if d != unreached && (gl.via == unreached || d < gl.via) {
+				gl.via, gl.hub = d, int32(i)
 			}
 		}
-		goals = append(goals, goal{t, via})
+		goals = append(goals, gl)
 	}
+	// Goals by decreasing cost through a hub, those without one first.
 	sort.Slice(goals, func(i, j int) bool {
 		a, b := goals[i], goals[j]
 		if (a.via == unreached) != (b.via == unreached) {
@@ -145,7 +256,7 @@ func (r *ranger) hubSearch(h *hubDist, src int32, targets []int32) error {
 		}
 		return a.via > b.via || (a.via == b.via && a.piece < b.piece)
 	})
-	if src != h.piece {
+	if h.index[src] < 0 {
 		r.dist[src] = 0
 		r.touched = append(r.touched, src)
 		r.heap.push(pieceItem{0, src})
@@ -164,15 +275,19 @@ func (r *ranger) hubSearch(h *hubDist, src int32, targets []int32) error {
 			continue
 		}
 		if v := goals[next].via; v != unreached && it.d >= v {
-			break // every goal left is reached as cheaply through the hub
+			break // every goal left is reached as cheaply through a hub
 		}
 		r.settled[u] = true
 		for c := r.fwdG.start[u]; c < r.fwdG.start[u+1]; c++ {
-			if v := r.fwdG.to[c]; v != h.piece {
-				if err := r.offer(v, it.d, r.fwdG.w[c]); err != nil {
-					return err
-				}
+			v := r.fwdG.to[c]
+			if r.settled[v] || h.index[v] >= 0 {
+				continue
 			}
+			nd, err := flow.AddChecked(it.d, r.fwdG.w[c])
+			if err != nil {
+				return fmt.Errorf("dual: route cost %w", err)
+			}
+			r.relax(v, nd, r.fwdG.rep[c])
 		}
 	}
 	for _, gl := range goals {
@@ -185,9 +300,38 @@ func (r *ranger) hubSearch(h *hubDist, src int32, targets []int32) error {
 		}
 		if !r.settled[t] || gl.via < r.dist[t] {
 			r.setDist(t, gl.via)
+			r.viaHub[t] = gl.hub
 		}
 	}
 	return nil
+}
+
+// hubEdges calls f on each edge of the route from piece src to piece t
+// through hub i (the hub's two trees), until f returns true; it reports
+// whether one did.
+func (r *ranger) hubEdges(h *hubDist, i, src, t int32, f func(e int32) bool) bool {
+	hp := h.pieces[i]
+	for v, steps := src, 0; v != hp && steps <= r.k; steps++ {
+		e := h.toPred[i][v]
+		if e < 0 {
+			break
+		}
+		if f(e) {
+			return true
+		}
+		v = r.g.comp[r.to[e]]
+	}
+	for v, steps := t, 0; v != hp && steps <= r.k; steps++ {
+		e := h.fromPred[i][v]
+		if e < 0 {
+			break
+		}
+		if f(e) {
+			return true
+		}
+		v = r.g.comp[r.from[e]]
+	}
+	return false
 }
 
 // setDist sets a piece's distance after a search.
@@ -195,17 +339,5 @@ func (r *ranger) setDist(v int32, d int64) {
 	if r.dist[v] == unreached {
 		r.touched = append(r.touched, v)
 	}
-	r.dist[v], r.pred[v] = d, -1
-}
-
-// routeUses reports whether the route found to piece v uses arc e.
-func (r *ranger) routeUses(v int32, e int32) bool {
-	for steps := 0; v >= 0 && r.pred[v] >= 0 && steps <= r.k+1; steps++ {
-		i := r.pred[v]
-		if r.arcOf[i] == e {
-			return true
-		}
-		v = r.g.comp[r.from[i]]
-	}
-	return false
+	r.dist[v], r.pred[v], r.viaHub[v] = d, -1, -1
 }

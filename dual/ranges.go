@@ -61,20 +61,22 @@ type Sensitivity struct {
 // valid potentials p (as Check returns them). Cost: O(|E| log |E|) when the
 // lanes in use form one piece; otherwise searches over the k pieces, on the
 // graph with one edge per ordered pair of pieces (k' edges): per source
-// piece of unused lanes (with distances through the best-connected piece
-// bounding each search, when there are several sources), per lane at
-// capacity between pieces, and two per lane in use, started from the
-// pieces next to one side of its cut (side tables, O(|V|·k) memory per
-// piece at most, give the cheapest edges) and stopped once they cannot beat
-// the best route. Each is O((k + k') log k) at worst and usually stopped
+// piece of lanes at a bound between pieces (with distances through the
+// best-connected pieces, the hubs, bounding each search when there are
+// several sources), and two per lane in use, started from the pieces next
+// to one side of its cut (side tables, O(|V|·k) memory per piece at most,
+// give the cheapest edges; a hub bounds them when a piece has many cuts)
+// and stopped once they cannot beat the best route. Each is O((k + k') log k) at worst and usually stopped
 // early. Memory O(|V| + |E|) besides the side tables (at most 2^20 cells).
 func Ranges(n *flow.Network, y []int64, p []int64) (*Sensitivity, error) {
-	return ranges(n, y, p, false)
+	return ranges(n, y, p, false, defaultHubs())
 }
 
 // ranges is Ranges; with checkSums the side searches check every sum for
-// overflow even when no route can overflow (tests compare the two).
-func ranges(n *flow.Network, y []int64, p []int64, checkSums bool) (*Sensitivity, error) {
+// overflow even when no route can overflow, and hubs says which pieces
+// bound the searches from many sources (tests compare both with the
+// defaults).
+func ranges(n *flow.Network, y []int64, p []int64, checkSums bool, hubs hubRule) (*Sensitivity, error) {
 	f, err := flow.CheckPlan(n, y)
 	if err != nil {
 		return nil, err
@@ -87,6 +89,7 @@ func ranges(n *flow.Network, y []int64, p []int64, checkSums bool) (*Sensitivity
 		return nil, err
 	}
 	r := newRanger(g, p)
+	r.hubs = hubs
 	if err := r.buildEdges(); err != nil {
 		return nil, err
 	}
@@ -143,14 +146,22 @@ type ranger struct {
 	inSlot     []int32 // per piece: its slot among the in-neighbours of the piece being split, or -1
 
 	// Search state, reused.
-	dist     []int64
-	settled  []bool
-	pred     []int32
-	touched  []int32
-	heap     pieceHeap
-	want     []int32 // search number for which a piece is a target
+	dist    []int64
+	settled []bool
+	pred    []int32
+	touched []int32
+	heap    pieceHeap
+	want    []int32 // search number for which a piece is a target
+	// viaHub[v] >= 0: the route hubSearch found to v goes from viaSrc
+	// through that hub of hub.
+	viaHub []int32
+	viaSrc int32
+	hub    *hubDist
+	// hubMark marks the hubs of the piece whose cuts sideSearch serves.
+	hubMark  []bool
 	stamp    int32
 	searches int
+	hubs     hubRule
 	// sumsFit: no route of at most k+2 edges (r.w) can overflow, so the
 	// side searches add without checks.
 	sumsFit bool
@@ -172,7 +183,7 @@ const unreached = int64(-1) << 63
 func newRanger(g *graph, p []int64) *ranger {
 	full := make([]int64, g.numNodes())
 	copy(full, p)
-	r := &ranger{g: g, p: full, k: g.pieces}
+	r := &ranger{g: g, p: full, k: g.pieces, hubs: defaultHubs()}
 	return r
 }
 
@@ -316,10 +327,13 @@ func (r *ranger) buildEdges() error {
 	r.pred = make([]int32, nv)
 	r.want = make([]int32, nv)
 	r.inSlot = make([]int32, nv)
+	r.viaHub = make([]int32, nv)
+	r.hubMark = make([]bool, nv)
 	for i := range r.dist {
 		r.dist[i] = unreached
 		r.pred[i] = -1
 		r.inSlot[i] = -1
+		r.viaHub[i] = -1
 	}
 	return nil
 }
@@ -637,11 +651,7 @@ func (r *ranger) pieceOf(v int32, sp split) int32 {
 // edges) per search at worst, with a binary heap); with one, every edge.
 func (r *ranger) search(sources []int32, targets []int32, sp split, exclude int32, reverse bool) error {
 	r.searches++
-	for _, v := range r.touched {
-		r.dist[v], r.settled[v], r.pred[v] = unreached, false, -1
-	}
-	r.touched = r.touched[:0]
-	r.heap = r.heap[:0]
+	r.resetSearch()
 	r.stamp++
 	for _, s := range sources {
 		if r.dist[s] != 0 {
@@ -843,7 +853,14 @@ func (r *ranger) firstLane(v int32) flow.LaneID {
 	if r.dist[v] == unreached {
 		return -1
 	}
-	if i := r.pred[v]; i >= 0 && int(r.arcOf[i]) < r.g.m {
+	i := r.pred[v]
+	if h := r.viaHub[v]; h >= 0 {
+		i = r.hub.fromPred[h][v]
+		if v == r.hub.pieces[h] {
+			r.hubEdges(r.hub, h, r.viaSrc, v, func(e int32) bool { i = e; return false })
+		}
+	}
+	if i >= 0 && int(r.arcOf[i]) < r.g.m {
 		return flow.LaneID(r.arcOf[i])
 	}
 	return -1
@@ -929,7 +946,7 @@ func (r *ranger) lanes(s *Sensitivity) error {
 		fill[j]++
 	}
 	var hub *hubDist
-	if len(order) >= minHubSources {
+	if len(order) >= minHubSources && r.hubs.max > 0 {
 		var err error
 		if hub, err = r.newHub(); err != nil {
 			return err
@@ -939,17 +956,15 @@ func (r *ranger) lanes(s *Sensitivity) error {
 	for si, src := range order {
 		qs := queries[qStart[si]:qStart[si+1]]
 		targets = targets[:0]
-		distOnly := true
 		for _, q := range qs {
 			if q.kind == 1 {
 				targets = append(targets, g.comp[g.head(q.lane)])
 			} else {
 				targets = append(targets, g.comp[g.tail(q.lane)])
 			}
-			distOnly = distOnly && q.kind == 0
 		}
 		var err error
-		if hub != nil && distOnly {
+		if hub != nil {
 			err = r.hubSearch(hub, src, targets)
 		} else {
 			err = r.search([]int32{src}, targets, split{child: -1}, -1, false)
@@ -957,7 +972,6 @@ func (r *ranger) lanes(s *Sensitivity) error {
 		if err != nil {
 			return err
 		}
-		var again []query
 		for _, q := range qs {
 			e := q.lane
 			_, _, _, rate := g.arc(e)
@@ -976,26 +990,16 @@ func (r *ranger) lanes(s *Sensitivity) error {
 					lr.UpperBy = r.firstLane(g.comp[h])
 				}
 			case 2:
-				// The route found may be the lane itself (backwards): then
-				// search again without it.
-				if r.routeUses(g.comp[t], int32(e)) {
-					again = append(again, q)
-					continue
-				}
+				// One more unit through the lane and back from its head
+				// to its tail by the cheapest route (d) saves
+				// diff-rate-d. The lane itself, backwards, is such a
+				// route (d = diff-rate, saving 0); routes are simple, so
+				// it is the only one from the head's piece that uses the
+				// lane, and any other is found instead when it is
+				// cheaper. No search without the lane is needed.
 				if d := r.dist[g.comp[t]]; d != unreached {
 					lr.CapacityValue = max(0, diff-rate-d)
 				}
-			}
-		}
-		for _, q := range again {
-			e := q.lane
-			_, _, _, rate := g.arc(e)
-			t, h := g.tail(e), g.head(e)
-			if err := r.search([]int32{g.comp[h]}, []int32{g.comp[t]}, split{child: -1}, int32(e), false); err != nil {
-				return err
-			}
-			if d := r.dist[g.comp[t]]; d != unreached {
-				s.Lanes[e].CapacityValue = max(0, r.p[h]-r.p[t]-rate-d)
 			}
 		}
 	}

@@ -369,6 +369,14 @@ func TestRangesManyPieces(t *testing.T) {
 		if err != nil || !reflect.DeepEqual(s, c) {
 			t.Fatalf("case %d: ranges with checked sums differ (%v)", i, err)
 		}
+		// The hubs only bound the searches: no hub, one, or up to eight
+		// of any size must give the same limits and prices.
+		for _, hubs := range []int{0, 1, 8} {
+			h, err := dual.RangesHubsForTest(n, opt.Flow, a.Potential, hubs)
+			if err != nil || !reflect.DeepEqual(s.Lanes, h.Lanes) || !reflect.DeepEqual(s.Nodes, h.Nodes) {
+				t.Fatalf("case %d: ranges with up to %d hubs differ (%v)", i, hubs, err)
+			}
+		}
 	}
 	if manyPieces < 20 {
 		t.Errorf("only %d optima with 10 or more pieces: the test no longer covers them", manyPieces)
@@ -450,4 +458,159 @@ func TestRangesBigPiece(t *testing.T) {
 		}
 		checkRoutes(t, i, n, opt.Flow, a.Potential, s, func(e int) bool { return e+1 < chain })
 	}
+}
+
+// TestRangesHubsAgree compares, on networks of 40 to 200 nodes with many
+// lanes at capacity and many equal rates (so that optima are degenerate
+// and fall into many pieces), the ranges found with no hub (every search
+// runs until it settles its targets) against those with one hub and with
+// up to eight hubs of any size: the hubs only bound the searches, so every
+// limit, capacity value and node price must agree. The lanes named as
+// starting or stopping to be used may differ where routes tie.
+func TestRangesHubsAgree(t *testing.T) {
+	rng := rand.New(rand.NewPCG(longrun.Seed(t, 41), 9))
+	withHub := 0
+	for i := range longrun.Cases(t, 80) {
+		o := randnet.RandomOptions(rng)
+		o.NegativeRates = false
+		o.Infeasible = false
+		o.ExcessSupply = false // no hold node: byLaneOK walks lanes only
+		o.Nodes = 40 + rng.IntN(161)
+		o.Lanes = 2*o.Nodes + rng.IntN(4*o.Nodes)
+		o.CapFrac = []float64{0.5, 0.9, 1}[rng.IntN(3)]
+		o.MaxRate = []int64{3, 10, 100}[rng.IntN(3)]
+		n := randnet.Network(rng, o)
+		opt, err := dual.Optimize(n, nil, nil)
+		if err != nil {
+			t.Fatal(err)
+		}
+		if opt.Status != flow.Optimal {
+			continue
+		}
+		a, err := dual.Check(n, opt.Flow)
+		if err != nil {
+			t.Fatal(err)
+		}
+		if a.Pieces >= 16 {
+			withHub++
+		}
+		base, err := dual.RangesHubsForTest(n, opt.Flow, a.Potential, 0)
+		if err != nil {
+			t.Fatalf("case %d: %v", i, err)
+		}
+		for _, hubs := range []int{1, 8} {
+			s, err := dual.RangesHubsForTest(n, opt.Flow, a.Potential, hubs)
+			if err != nil {
+				t.Fatalf("case %d, %d hubs: %v", i, hubs, err)
+			}
+			if !reflect.DeepEqual(base.Nodes, s.Nodes) {
+				t.Fatalf("case %d: node prices with up to %d hubs differ", i, hubs)
+			}
+			checked := 0
+			for e := range base.Lanes {
+				x, y := base.Lanes[e], s.Lanes[e]
+				for _, by := range []struct {
+					lane, other flow.LaneID
+					more        bool
+				}{{y.LowerBy, x.LowerBy, true}, {y.UpperBy, x.UpperBy, false}} {
+					if by.lane >= 0 && (checked < 40 || by.lane != by.other) {
+						checked++
+						if !byLaneOK(n, opt.Flow, a.Potential, e, int(by.lane), by.more) {
+							t.Fatalf("case %d, lane %d, up to %d hubs: lane %d is on no cheapest route (more %v)", i, e, hubs, by.lane, by.more)
+						}
+					}
+				}
+				x.LowerBy, x.UpperBy, y.LowerBy, y.UpperBy = 0, 0, 0, 0
+				if x != y {
+					t.Fatalf("case %d, lane %d: with no hub %+v, with up to %d hubs %+v", i, e, x, hubs, y)
+				}
+			}
+		}
+	}
+	if withHub < 20 {
+		t.Errorf("only %d optima with 16 or more pieces: the test no longer covers the hubs", withHub)
+	}
+}
+
+// byLaneOK reports whether lane f lies, in a direction it has room for, on
+// a cheapest route of the residual network of optimal plan y that avoids
+// lane e and runs from e's head to its tail (more) or from its tail to its
+// head: the lane a limit names as starting or stopping to be used. Costs
+// are reduced costs under p (non-negative on every residual arc at an
+// optimum); plain Dijkstra over nodes, written apart from package dual.
+func byLaneOK(n *flow.Network, y, p []int64, e, f int, more bool) bool {
+	from, to := int(n.Head[e]), int(n.Tail[e])
+	if !more {
+		from, to = to, from
+	}
+	type arc struct {
+		a, b int
+		w    int64
+	}
+	var arcs []arc
+	var fArcs []arc
+	for l := range n.Tail {
+		if l == e {
+			continue
+		}
+		t, h := int(n.Tail[l]), int(n.Head[l])
+		rc := n.Rate[l] + p[t] - p[h]
+		if y[l] < n.Upper[l] {
+			arcs = append(arcs, arc{t, h, rc})
+			if l == f {
+				fArcs = append(fArcs, arc{t, h, rc})
+			}
+		}
+		if y[l] > n.Lower[l] {
+			arcs = append(arcs, arc{h, t, -rc})
+			if l == f {
+				fArcs = append(fArcs, arc{h, t, -rc})
+			}
+		}
+	}
+	out := make([][]arc, len(n.Nodes)) // by the end a search leaves from
+	in := make([][]arc, len(n.Nodes))
+	for _, x := range arcs {
+		out[x.a] = append(out[x.a], x)
+		in[x.b] = append(in[x.b], arc{x.b, x.a, x.w})
+	}
+	dist := func(src int, reverse bool) []int64 {
+		adj := out
+		if reverse {
+			adj = in
+		}
+		d := make([]int64, len(n.Nodes))
+		done := make([]bool, len(n.Nodes))
+		for v := range d {
+			d[v] = -1
+		}
+		d[src] = 0
+		for {
+			u := -1
+			for v := range d {
+				if !done[v] && d[v] >= 0 && (u < 0 || d[v] < d[u]) {
+					u = v
+				}
+			}
+			if u < 0 {
+				return d
+			}
+			done[u] = true
+			for _, x := range adj[u] {
+				if d[x.b] < 0 || d[u]+x.w < d[x.b] {
+					d[x.b] = d[u] + x.w
+				}
+			}
+		}
+	}
+	dFrom, dTo := dist(from, false), dist(to, true)
+	if dFrom[to] < 0 {
+		return false
+	}
+	for _, x := range fArcs {
+		if dFrom[x.a] >= 0 && dTo[x.b] >= 0 && dFrom[x.a]+x.w+dTo[x.b] == dFrom[to] {
+			return true
+		}
+	}
+	return false
 }

@@ -50,7 +50,7 @@ func (r *ranger) forestRanges(forest []int32, s *Sensitivity) error {
 			// Too many neighbours for tables: search from the smaller
 			// side of each cut instead.
 			bp := r.newBigPiece(p, base, size)
-			via, err := r.newSplitHub(p, base, size)
+			via, err := r.splitHubs(p, base, size, 1)
 			if err != nil {
 				return err
 			}
@@ -62,9 +62,30 @@ func (r *ranger) forestRanges(forest []int32, s *Sensitivity) error {
 		} else {
 			r.sideTable(&out, p, base, size, false)
 			r.sideTable(&in, p, base, size, true)
-			for _, e := range lanes {
-				if err := r.splitSides(int(e), &s.Lanes[e], p, base, &out, &in, nil, nil); err != nil {
+			// With many cuts, the routes through a hub bound the searches
+			// (two searches per piece; without them, a degenerate optimum
+			// of sparse transportation from another solver made every
+			// search settle half the pieces).
+			var via []*splitHub
+			if len(lanes) >= minHubSources {
+				var err error
+				if via, err = r.splitHubs(p, base, size, 1); err != nil {
 					return err
+				}
+			}
+			for _, h := range via {
+				if h.piece >= 0 {
+					r.hubMark[h.piece] = true
+				}
+			}
+			for _, e := range lanes {
+				if err := r.splitSides(int(e), &s.Lanes[e], p, base, &out, &in, nil, via); err != nil {
+					return err
+				}
+			}
+			for _, h := range via {
+				if h.piece >= 0 {
+					r.hubMark[h.piece] = false
 				}
 			}
 		}
@@ -182,8 +203,9 @@ func (t *sideTable) row(l, end int, subtree bool) {
 // cuts p in two sides; the limits are the cheapest routes between the two
 // sides: an inner edge across the cut (from cover) or a route through
 // other pieces, found with the side tables of p (out, in) or, without them
-// (out nil), with p's edges arranged by bp and the hub via.
-func (r *ranger) splitSides(e int, lr *LaneRange, p, base int32, out, in *sideTable, bp *bigPiece, via *splitHub) error {
+// (out nil), with p's edges arranged by bp and the hub via[0]. With the
+// tables, the hubs via (marked in r.hubMark) bound the searches.
+func (r *ranger) splitSides(e int, lr *LaneRange, p, base int32, out, in *sideTable, bp *bigPiece, via []*splitHub) error {
 	g := r.g
 	_, _, _, rate := g.arc(e)
 	t, h := g.tail(e), g.head(e)
@@ -215,11 +237,30 @@ func (r *ranger) splitSides(e int, lr *LaneRange, p, base int32, out, in *sideTa
 		if out != nil {
 			out.row(l, end, fromSub)
 			in.row(l, end, !fromSub)
-			x, xi, err = r.sideSearch(p, out, in, target, inner)
+			// As below: the cheapest route through a hub bounds the
+			// search, which leaves the hubs out.
+			u, ui := unreached, int32(-1)
+			for _, h := range via {
+				hu, hi, uerr := h.route(l, end, fromSub)
+				if uerr != nil {
+					return 0, -1, false, uerr
+				}
+				if hu != unreached && (u == unreached || hu < u || hu == u && hi < ui) {
+					u, ui = hu, hi
+				}
+			}
+			bound := inner
+			if u != unreached && (bound == unreached || u < bound) {
+				bound = u
+			}
+			x, xi, err = r.sideSearch(p, out, in, target, bound)
+			if err == nil && u != unreached && (x == unreached || x >= u) {
+				x, xi = u, ui
+			}
 		} else {
 			// The cheapest route through the hub bounds the search, which
 			// then leaves the hub out.
-			u, ui, uerr := via.route(l, end, fromSub)
+			u, ui, uerr := via[0].route(l, end, fromSub)
 			if uerr != nil {
 				return 0, -1, false, uerr
 			}
@@ -227,7 +268,7 @@ func (r *ranger) splitSides(e int, lr *LaneRange, p, base int32, out, in *sideTa
 			if u != unreached && (bound == unreached || u < bound) {
 				bound = u
 			}
-			x, xi, err = r.smallSide(bp, via.piece, l, end, fromSub, bound)
+			x, xi, err = r.smallSide(bp, via[0].piece, l, end, fromSub, bound)
 			if err == nil && u != unreached && (x == unreached || x >= u) {
 				x, xi = u, ui // nothing cheaper without the hub
 			}
@@ -267,12 +308,13 @@ func (r *ranger) splitSides(e int, lr *LaneRange, p, base int32, out, in *sideTa
 // the far side (numbered target in the edge-by-edge search, whose tie rule
 // it follows: of the routes of least cost, the one entering the far side by
 // the least edge index among those found before the far side would be
-// settled, as search would). Routes costing bound or more are not looked for (unreached: no
-// bound). It returns the cost (unreached: none) and the entering edge.
+// settled, as search would). Routes costing bound or more are not looked
+// for (unreached: no bound), nor routes through the pieces r.hubMark
+// marks. It returns the cost (unreached: none) and the entering edge.
 func (r *ranger) sideSearch(p int32, out, in *sideTable, target int32, bound int64) (int64, int32, error) {
 	left := 0
-	for _, i := range in.rowI {
-		if i >= 0 {
+	for j, i := range in.rowI {
+		if i >= 0 && !r.hubMark[r.revG.to[int(r.revG.start[p])+j]] {
 			left++
 		}
 	}
@@ -280,14 +322,9 @@ func (r *ranger) sideSearch(p int32, out, in *sideTable, target int32, bound int
 		return unreached, -1, nil
 	}
 	r.searches++
-	for _, v := range r.touched {
-		r.dist[v], r.settled[v], r.pred[v] = unreached, false, -1
-	}
-	r.touched = r.touched[:0]
-	r.heap = r.heap[:0]
+	r.resetSearch()
 	for j, i := range out.rowI {
-		if i >= 0 {
-			x := r.fwdG.to[int(r.fwdG.start[p])+j]
+		if x := r.fwdG.to[int(r.fwdG.start[p])+j]; i >= 0 && !r.hubMark[x] {
 			r.dist[x] = out.rowW[j]
 			r.touched = append(r.touched, x)
 			r.heap.push(pieceItem{out.rowW[j], x})
@@ -318,7 +355,7 @@ func (r *ranger) sideSearch(p int32, out, in *sideTable, target int32, bound int
 		}
 		for c := r.fwdG.start[u]; c < r.fwdG.start[u+1]; c++ {
 			v := r.fwdG.to[c]
-			if v == p || r.settled[v] {
+			if v == p || r.hubMark[v] || r.settled[v] {
 				continue
 			}
 			nd := it.d + r.fwdG.w[c]
@@ -551,23 +588,31 @@ type splitHub struct {
 	inSubBy, inPreBy, inSufBy []int32
 }
 
-// newSplitHub builds the splitHub of piece p (nodes euler[base:base+size]):
-// two searches and O(size + edges of p).
-func (r *ranger) newSplitHub(p, base int32, size int) (*splitHub, error) {
+// splitHubs returns the splitHubs of piece p (nodes euler[base:
+// base+size]) for up to max hubs chosen by r.hubs among the other pieces
+// (at least one entry, with piece -1 when there is no other piece).
+func (r *ranger) splitHubs(p, base int32, size int, max int32) ([]*splitHub, error) {
+	rule := r.hubs
+	rule.max = min(rule.max, max)
+	var hubs []*splitHub
+	for _, c := range r.hubPieces(rule, p) {
+		h, err := r.newSplitHub(p, base, size, c)
+		if err != nil {
+			return nil, err
+		}
+		hubs = append(hubs, h)
+	}
+	if len(hubs) == 0 {
+		hubs = append(hubs, &splitHub{piece: -1})
+	}
+	return hubs, nil
+}
+
+// newSplitHub builds the splitHub of piece p (nodes euler[base:base+size])
+// with hub c: two searches and O(size + edges of p).
+func (r *ranger) newSplitHub(p, base int32, size int, c int32) (*splitHub, error) {
 	g := r.g
-	h := &splitHub{piece: -1}
-	most := int32(-1)
-	for c := int32(0); int(c) < r.k; c++ {
-		if c == p {
-			continue
-		}
-		if d := r.fwdG.start[c+1] - r.fwdG.start[c] + r.revG.start[c+1] - r.revG.start[c]; d > most {
-			h.piece, most = c, d
-		}
-	}
-	if h.piece < 0 {
-		return h, nil
-	}
+	h := &splitHub{piece: c}
 	toHub, err := r.allDist(h.piece, true, p)
 	if err != nil {
 		return nil, err
