@@ -157,8 +157,11 @@ type ranger struct {
 	viaHub []int32
 	viaSrc int32
 	hub    *hubDist
-	// hubMark marks the hubs of the piece whose cuts sideSearch serves.
+	// hubMark marks the hubs of the piece whose cuts sideSearch serves, and
+	// toP (nil: none) holds each piece's distance to that piece.
 	hubMark  []bool
+	toP      []int64
+	toPBuf   []int64
 	stamp    int32
 	searches int
 	hubs     hubRule

@@ -78,6 +78,11 @@ func (r *ranger) forestRanges(forest []int32, s *Sensitivity) error {
 					r.hubMark[h.piece] = true
 				}
 			}
+			if len(lanes) >= minHubSources {
+				if err := r.setToP(p); err != nil {
+					return err
+				}
+			}
 			for _, e := range lanes {
 				if err := r.splitSides(int(e), &s.Lanes[e], p, base, &out, &in, nil, via); err != nil {
 					return err
@@ -88,6 +93,7 @@ func (r *ranger) forestRanges(forest []int32, s *Sensitivity) error {
 					r.hubMark[h.piece] = false
 				}
 			}
+			r.toP = nil
 		}
 		for c := r.revG.start[p]; c < r.revG.start[p+1]; c++ {
 			r.inSlot[r.revG.to[c]] = -1
@@ -323,11 +329,36 @@ func (r *ranger) sideSearch(p int32, out, in *sideTable, target int32, bound int
 	}
 	r.searches++
 	r.resetSearch()
+	// With r.toP set, a piece's heap key is its distance plus its distance
+	// to p (a lower bound on the rest of any route through it to the far
+	// side, and consistent), so that the search goes towards p first; a
+	// piece that cannot reach p is never entered.
+	toP := r.toP
+	key := func(v int32, d int64) (int64, bool, error) {
+		if toP == nil {
+			return d, true, nil
+		}
+		if toP[v] == unreached {
+			return 0, false, nil
+		}
+		k, err := flow.AddChecked(d, toP[v])
+		if err != nil {
+			return 0, false, fmt.Errorf("dual: route cost %w", err)
+		}
+		return k, true, nil
+	}
 	for j, i := range out.rowI {
 		if x := r.fwdG.to[int(r.fwdG.start[p])+j]; i >= 0 && !r.hubMark[x] {
+			k, ok, err := key(x, out.rowW[j])
+			if err != nil {
+				return 0, -1, err
+			}
+			if !ok {
+				continue
+			}
 			r.dist[x] = out.rowW[j]
 			r.touched = append(r.touched, x)
-			r.heap.push(pieceItem{out.rowW[j], x})
+			r.heap.push(pieceItem{k, x})
 		}
 	}
 	// The far side is a piece of its own here (number target), reached
@@ -335,16 +366,26 @@ func (r *ranger) sideSearch(p int32, out, in *sideTable, target int32, bound int
 	for len(r.heap) > 0 {
 		it := r.heap.pop()
 		u := it.piece
-		if r.settled[u] || it.d != r.dist[u] {
+		if r.settled[u] {
 			continue
 		}
-		if u == target || (bound != unreached && it.d >= bound) {
+		if u == target {
+			if it.d != r.dist[u] {
+				continue
+			}
+			break
+		}
+		if k := r.dist[u]; toP != nil && it.d != k+toP[u] || toP == nil && it.d != k {
+			continue // a stale entry (the sum was checked when pushed)
+		}
+		if bound != unreached && it.d >= bound {
 			break
 		}
 		r.settled[u] = true
+		d := r.dist[u]
 		if j := r.inSlot[u]; j >= 0 && in.rowI[j] >= 0 {
 			left--
-			val, err := flow.AddChecked(it.d, in.rowW[j])
+			val, err := flow.AddChecked(d, in.rowW[j])
 			if err != nil {
 				return 0, -1, fmt.Errorf("dual: route cost %w", err)
 			}
@@ -358,23 +399,65 @@ func (r *ranger) sideSearch(p int32, out, in *sideTable, target int32, bound int
 			if v == p || r.hubMark[v] || r.settled[v] {
 				continue
 			}
-			nd := it.d + r.fwdG.w[c]
+			nd := d + r.fwdG.w[c]
 			if !r.sumsFit {
 				var err error
-				if nd, err = flow.AddChecked(it.d, r.fwdG.w[c]); err != nil {
+				if nd, err = flow.AddChecked(d, r.fwdG.w[c]); err != nil {
 					return 0, -1, fmt.Errorf("dual: route cost %w", err)
 				}
 			}
-			if r.dist[v] == unreached {
-				r.touched = append(r.touched, v)
-			} else if nd >= r.dist[v] {
+			if r.dist[v] != unreached && nd >= r.dist[v] {
 				continue
 			}
+			k, ok, err := key(v, nd)
+			if err != nil {
+				return 0, -1, err
+			}
+			if !ok {
+				continue
+			}
+			if r.dist[v] == unreached {
+				r.touched = append(r.touched, v)
+			}
 			r.dist[v] = nd
-			r.heap.push(pieceItem{nd, v})
+			r.heap.push(pieceItem{k, v})
 		}
 	}
 	return r.dist[target], r.pred[target], nil
+}
+
+// setToP sets r.toP to each piece's distance to piece p (the cheapest
+// route to any node of p, through other pieces; unreached: none): one
+// search backwards from p's in-neighbours. O((k + merged edges) log k).
+func (r *ranger) setToP(p int32) error {
+	r.searches++
+	r.resetSearch()
+	for c := r.revG.start[p]; c < r.revG.start[p+1]; c++ {
+		if err := r.offer(r.revG.to[c], 0, r.revG.w[c]); err != nil {
+			return err
+		}
+	}
+	for len(r.heap) > 0 {
+		it := r.heap.pop()
+		u := it.piece
+		if r.settled[u] || it.d != r.dist[u] {
+			continue
+		}
+		r.settled[u] = true
+		for c := r.revG.start[u]; c < r.revG.start[u+1]; c++ {
+			if v := r.revG.to[c]; v != p {
+				if err := r.offer(v, it.d, r.revG.w[c]); err != nil {
+					return err
+				}
+			}
+		}
+	}
+	if r.toPBuf == nil {
+		r.toPBuf = make([]int64, len(r.dist))
+	}
+	copy(r.toPBuf, r.dist)
+	r.toP = r.toPBuf
+	return nil
 }
 
 // bigPiece arranges the edges between a piece p (nodes euler[base:
