@@ -18,6 +18,7 @@ import (
 
 	"lanecert/dual"
 	"lanecert/flow"
+	"lanecert/internal/netgen"
 	"lanecert/reports"
 )
 
@@ -877,4 +878,39 @@ func TestHTMLDetailColumns(t *testing.T) {
 			}
 		})
 	}
+}
+
+// BenchmarkHTML times the page of an optimal plan of a sparse
+// transportation network with 10^5 lanes and its ranges (every lane in
+// the table, as lanecert report writes it); the audit and the ranges are
+// not timed.
+func BenchmarkHTML(b *testing.B) {
+	n := netgen.Transport(8, 5000, 5000, 100000, 1000)
+	sol, err := flow.Solve(n, flow.SolveOptions{})
+	if err != nil || sol.Status != flow.Optimal {
+		b.Fatal(sol.Status, err)
+	}
+	a, err := dual.Check(n, sol.Flow)
+	if err != nil {
+		b.Fatal(err)
+	}
+	s, err := dual.Ranges(n, sol.Flow, a.Potential)
+	if err != nil {
+		b.Fatal(err)
+	}
+	d, err := reports.Build(a, nil, reports.Inputs{Network: "generated", Plan: "generated"}, nil)
+	if err != nil {
+		b.Fatal(err)
+	}
+	d.AddRanges(sol.Flow, s, "plan")
+	b.ResetTimer()
+	var size int
+	for i := 0; i < b.N; i++ {
+		var buf bytes.Buffer
+		if err := reports.Write(&buf, d, reports.HTML, reports.Options{}); err != nil {
+			b.Fatal(err)
+		}
+		size = buf.Len()
+	}
+	b.ReportMetric(float64(size), "bytes")
 }
