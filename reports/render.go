@@ -581,9 +581,18 @@ func (p *printer) bullet(s string) {
 }
 
 func mdEscape(s string) string {
-	r := strings.NewReplacer("|", `\|`, "*", `\*`, "_", `\_`, "<", "&lt;", ">", "&gt;", "`", "\\`")
-	return r.Replace(s)
+	if strings.ContainsAny(s, mdSpecial) {
+		return mdEscaper.Replace(s)
+	}
+	return s
 }
+
+// mdSpecial lists the characters mdEscaper replaces; mdEscaper is built
+// once (a Replacer builds its tables on first use, which cost more than
+// the replacing when it was made per cell).
+const mdSpecial = "|*_<>`"
+
+var mdEscaper = strings.NewReplacer("|", `\|`, "*", `\*`, "_", `\_`, "<", "&lt;", ">", "&gt;", "`", "\\`")
 
 // table renders rows with every tablewriter option set explicitly, so the
 // output does not depend on the library's defaults.
