@@ -413,7 +413,9 @@ func (r *ranger) sideSearch(p int32, out, in *sideTable, target int32, bound int
 			if err != nil {
 				return 0, -1, err
 			}
-			if !ok {
+			// A piece whose key reaches the bound, or passes the best
+			// route found, would never be settled: leave it out.
+			if !ok || bound != unreached && k >= bound || r.dist[target] != unreached && k > r.dist[target] {
 				continue
 			}
 			if r.dist[v] == unreached {
