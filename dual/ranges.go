@@ -157,11 +157,10 @@ type ranger struct {
 	viaHub []int32
 	viaSrc int32
 	hub    *hubDist
-	// hubMark marks the hubs of the piece whose cuts sideSearch serves, and
-	// toP (nil: none) holds each piece's distance to that piece.
+	// hubMark marks the hubs of the piece whose cuts sideSearch serves;
+	// back is sideSearch's backward half.
 	hubMark  []bool
-	toP      []int64
-	toPBuf   []int64
+	back     backSearch
 	stamp    int32
 	searches int
 	hubs     hubRule

@@ -78,11 +78,6 @@ func (r *ranger) forestRanges(forest []int32, s *Sensitivity) error {
 					r.hubMark[h.piece] = true
 				}
 			}
-			if len(lanes) >= minHubSources {
-				if err := r.setToP(p); err != nil {
-					return err
-				}
-			}
 			for _, e := range lanes {
 				if err := r.splitSides(int(e), &s.Lanes[e], p, base, &out, &in, nil, via); err != nil {
 					return err
@@ -93,7 +88,6 @@ func (r *ranger) forestRanges(forest []int32, s *Sensitivity) error {
 					r.hubMark[h.piece] = false
 				}
 			}
-			r.toP = nil
 		}
 		for c := r.revG.start[p]; c < r.revG.start[p+1]; c++ {
 			r.inSlot[r.revG.to[c]] = -1
@@ -233,10 +227,6 @@ func (r *ranger) splitSides(e int, lr *LaneRange, p, base int32, out, in *sideTa
 		if inner == 0 {
 			return d, by, true, nil // no route is cheaper
 		}
-		target := int32(r.k) // the subtree's virtual piece number
-		if fromSub {
-			target = p
-		}
 		var x int64
 		var xi int32
 		var err error
@@ -259,7 +249,7 @@ func (r *ranger) splitSides(e int, lr *LaneRange, p, base int32, out, in *sideTa
 			if u != unreached && (bound == unreached || u < bound) {
 				bound = u
 			}
-			x, xi, err = r.sideSearch(p, out, in, target, bound)
+			x, xi, err = r.sideSearch(p, out, in, bound)
 			if err == nil && u != unreached && (x == unreached || x >= u) {
 				x, xi = u, ui
 			}
@@ -308,158 +298,159 @@ func (r *ranger) splitSides(e int, lr *LaneRange, p, base int32, out, in *sideTa
 	return nil
 }
 
+// backSearch is the state of the backward half of sideSearch.
+type backSearch struct {
+	dist    []int64
+	settled []bool
+	lab     []int32 // the edge into the far side that v's route ends with
+	touched []int32
+	heap    pieceHeap
+}
+
+func (b *backSearch) reset(n int) {
+	if b.dist == nil {
+		b.dist = make([]int64, n)
+		b.settled = make([]bool, n)
+		b.lab = make([]int32, n)
+		for i := range b.dist {
+			b.dist[i] = unreached
+		}
+	}
+	for _, v := range b.touched {
+		b.dist[v], b.settled[v], b.lab[v] = unreached, false, -1
+	}
+	b.touched = b.touched[:0]
+	b.heap = b.heap[:0]
+}
+
 // sideSearch finds the cheapest route from one side of split piece p to
 // the other through other pieces: out.row holds the cheapest edges from the
 // near side to p's out-neighbours, in.row those from p's in-neighbours into
-// the far side (numbered target in the edge-by-edge search, whose tie rule
-// it follows: of the routes of least cost, the one entering the far side by
-// the least edge index among those found before the far side would be
-// settled, as search would). Routes costing bound or more are not looked
-// for (unreached: no bound), nor routes through the pieces r.hubMark
-// marks. It returns the cost (unreached: none) and the entering edge.
-func (r *ranger) sideSearch(p int32, out, in *sideTable, target int32, bound int64) (int64, int32, error) {
-	left := 0
-	for j, i := range in.rowI {
-		if i >= 0 && !r.hubMark[r.revG.to[int(r.revG.start[p])+j]] {
-			left++
-		}
-	}
-	if left == 0 {
-		return unreached, -1, nil
-	}
+// the far side; the route is reported by its edge into the far side. It
+// searches from both ends at once, forward from the out-neighbours and
+// backward from the in-neighbours, until the least distances of the two
+// frontiers add up to the best route found or to bound (unreached: no
+// bound); routes costing bound or more are not looked for, nor routes
+// through the pieces r.hubMark marks. Of routes of equal cost it keeps the
+// one entering the far side by the least edge among those found. It
+// returns the cost (unreached: none) and that edge. (A search from the
+// near side only settled, on another solver's optimum of sparse
+// transportation, a third of all pieces per cut; two searches of half the
+// radius settle far fewer.)
+func (r *ranger) sideSearch(p int32, out, in *sideTable, bound int64) (int64, int32, error) {
 	r.searches++
 	r.resetSearch()
-	// With r.toP set, a piece's heap key is its distance plus its distance
-	// to p (a lower bound on the rest of any route through it to the far
-	// side, and consistent), so that the search goes towards p first; a
-	// piece that cannot reach p is never entered.
-	toP := r.toP
-	key := func(v int32, d int64) (int64, bool, error) {
-		if toP == nil {
-			return d, true, nil
+	b := &r.back
+	b.reset(len(r.dist))
+	best, bestI := unreached, int32(-1)
+	meet := func(v int32) error {
+		if r.dist[v] == unreached || b.dist[v] == unreached {
+			return nil
 		}
-		if toP[v] == unreached {
-			return 0, false, nil
-		}
-		k, err := flow.AddChecked(d, toP[v])
+		c, err := flow.AddChecked(r.dist[v], b.dist[v])
 		if err != nil {
-			return 0, false, fmt.Errorf("dual: route cost %w", err)
+			return fmt.Errorf("dual: route cost %w", err)
 		}
-		return k, true, nil
+		if best == unreached || c < best || c == best && b.lab[v] < bestI {
+			best, bestI = c, b.lab[v]
+		}
+		return nil
 	}
 	for j, i := range out.rowI {
 		if x := r.fwdG.to[int(r.fwdG.start[p])+j]; i >= 0 && !r.hubMark[x] {
-			k, ok, err := key(x, out.rowW[j])
-			if err != nil {
-				return 0, -1, err
-			}
-			if !ok {
-				continue
-			}
 			r.dist[x] = out.rowW[j]
 			r.touched = append(r.touched, x)
-			r.heap.push(pieceItem{k, x})
+			r.heap.push(pieceItem{out.rowW[j], x})
 		}
 	}
-	// The far side is a piece of its own here (number target), reached
-	// only by the in-neighbours' edges, so ties resolve as in search.
-	for len(r.heap) > 0 {
-		it := r.heap.pop()
-		u := it.piece
-		if r.settled[u] {
-			continue
-		}
-		if u == target {
-			if it.d != r.dist[u] {
-				continue
-			}
-			break
-		}
-		if k := r.dist[u]; toP != nil && it.d != k+toP[u] || toP == nil && it.d != k {
-			continue // a stale entry (the sum was checked when pushed)
-		}
-		if bound != unreached && it.d >= bound {
-			break
-		}
-		r.settled[u] = true
-		d := r.dist[u]
-		if j := r.inSlot[u]; j >= 0 && in.rowI[j] >= 0 {
-			left--
-			val, err := flow.AddChecked(d, in.rowW[j])
-			if err != nil {
-				return 0, -1, fmt.Errorf("dual: route cost %w", err)
-			}
-			r.relax(target, val, in.rowI[j])
-		}
-		if left == 0 {
-			break
-		}
-		for c := r.fwdG.start[u]; c < r.fwdG.start[u+1]; c++ {
-			v := r.fwdG.to[c]
-			if v == p || r.hubMark[v] || r.settled[v] {
-				continue
-			}
-			nd := d + r.fwdG.w[c]
-			if !r.sumsFit {
-				var err error
-				if nd, err = flow.AddChecked(d, r.fwdG.w[c]); err != nil {
-					return 0, -1, fmt.Errorf("dual: route cost %w", err)
-				}
-			}
-			if r.dist[v] != unreached && nd >= r.dist[v] {
-				continue
-			}
-			k, ok, err := key(v, nd)
-			if err != nil {
+	for j, i := range in.rowI {
+		if y := r.revG.to[int(r.revG.start[p])+j]; i >= 0 && !r.hubMark[y] {
+			b.dist[y], b.lab[y] = in.rowW[j], i
+			b.touched = append(b.touched, y)
+			b.heap.push(pieceItem{in.rowW[j], y})
+			if err := meet(y); err != nil {
 				return 0, -1, err
 			}
-			// A piece whose key reaches the bound, or passes the best
-			// route found, would never be settled: leave it out.
-			if !ok || bound != unreached && k >= bound || r.dist[target] != unreached && k > r.dist[target] {
+		}
+	}
+	top := func(h pieceHeap, dist []int64, settled []bool) (int64, pieceHeap) {
+		for len(h) > 0 {
+			it := h[0]
+			if settled[it.piece] || it.d != dist[it.piece] {
+				h.pop()
 				continue
 			}
-			if r.dist[v] == unreached {
-				r.touched = append(r.touched, v)
+			return it.d, h
+		}
+		return unreached, h
+	}
+	for {
+		var tf, tb int64
+		tf, r.heap = top(r.heap, r.dist, r.settled)
+		tb, b.heap = top(b.heap, b.dist, b.settled)
+		if tf == unreached || tb == unreached {
+			break
+		}
+		lim := best
+		if bound != unreached && (lim == unreached || bound < lim) {
+			lim = bound
+		}
+		if lim != unreached && tf+tb >= lim {
+			break
+		}
+		if len(r.heap) <= len(b.heap) {
+			it := r.heap.pop()
+			u := it.piece
+			r.settled[u] = true
+			for c := r.fwdG.start[u]; c < r.fwdG.start[u+1]; c++ {
+				v := r.fwdG.to[c]
+				if v == p || r.hubMark[v] || r.settled[v] {
+					continue
+				}
+				nd, err := flow.AddChecked(it.d, r.fwdG.w[c])
+				if err != nil {
+					return 0, -1, fmt.Errorf("dual: route cost %w", err)
+				}
+				if r.dist[v] != unreached && nd >= r.dist[v] {
+					continue
+				}
+				if r.dist[v] == unreached {
+					r.touched = append(r.touched, v)
+				}
+				r.dist[v] = nd
+				r.heap.push(pieceItem{nd, v})
+				if err := meet(v); err != nil {
+					return 0, -1, err
+				}
 			}
-			r.dist[v] = nd
-			r.heap.push(pieceItem{k, v})
-		}
-	}
-	return r.dist[target], r.pred[target], nil
-}
-
-// setToP sets r.toP to each piece's distance to piece p (the cheapest
-// route to any node of p, through other pieces; unreached: none): one
-// search backwards from p's in-neighbours. O((k + merged edges) log k).
-func (r *ranger) setToP(p int32) error {
-	r.searches++
-	r.resetSearch()
-	for c := r.revG.start[p]; c < r.revG.start[p+1]; c++ {
-		if err := r.offer(r.revG.to[c], 0, r.revG.w[c]); err != nil {
-			return err
-		}
-	}
-	for len(r.heap) > 0 {
-		it := r.heap.pop()
-		u := it.piece
-		if r.settled[u] || it.d != r.dist[u] {
-			continue
-		}
-		r.settled[u] = true
-		for c := r.revG.start[u]; c < r.revG.start[u+1]; c++ {
-			if v := r.revG.to[c]; v != p {
-				if err := r.offer(v, it.d, r.revG.w[c]); err != nil {
-					return err
+		} else {
+			it := b.heap.pop()
+			u := it.piece
+			b.settled[u] = true
+			for c := r.revG.start[u]; c < r.revG.start[u+1]; c++ {
+				v := r.revG.to[c]
+				if v == p || r.hubMark[v] || b.settled[v] {
+					continue
+				}
+				nd, err := flow.AddChecked(it.d, r.revG.w[c])
+				if err != nil {
+					return 0, -1, fmt.Errorf("dual: route cost %w", err)
+				}
+				if b.dist[v] != unreached && (nd > b.dist[v] || nd == b.dist[v] && b.lab[u] >= b.lab[v]) {
+					continue
+				}
+				if b.dist[v] == unreached {
+					b.touched = append(b.touched, v)
+				}
+				b.dist[v], b.lab[v] = nd, b.lab[u]
+				b.heap.push(pieceItem{nd, v})
+				if err := meet(v); err != nil {
+					return 0, -1, err
 				}
 			}
 		}
 	}
-	if r.toPBuf == nil {
-		r.toPBuf = make([]int64, len(r.dist))
-	}
-	copy(r.toPBuf, r.dist)
-	r.toP = r.toPBuf
-	return nil
+	return best, bestI, nil
 }
 
 // bigPiece arranges the edges between a piece p (nodes euler[base:
