@@ -82,6 +82,20 @@ func (r *ranger) hubPieces(rule hubRule, skip int32) []int32 {
 	if rule.max <= 0 {
 		return nil
 	}
+	if rule.max == 1 {
+		// The first of the order below, without sorting (a split of
+		// every piece with many cuts asks for one).
+		best, most := int32(-1), int32(-1)
+		for c := int32(0); int(c) < r.k; c++ {
+			if d := r.fwdG.start[c+1] - r.fwdG.start[c] + r.revG.start[c+1] - r.revG.start[c]; c != skip && d > most {
+				best, most = c, d
+			}
+		}
+		if best < 0 {
+			return nil
+		}
+		return []int32{best}
+	}
 	deg := make([]int32, r.k)
 	order := make([]int32, 0, r.k)
 	for c := int32(0); int(c) < r.k; c++ {
