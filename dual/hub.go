@@ -40,8 +40,8 @@ func defaultHubs() hubRule { return hubRule{max: 8, share: 8, minDegree: 64} }
 // Each hub also keeps its two trees of cheapest routes: toPred[h][v] is the
 // first edge (an index into ranger.from) of v's route to the hub,
 // fromPred[h][v] the last edge of the hub's route to v (-1 at the hub and
-// where unreached), so that a route through a hub can be named and checked
-// edge by edge.
+// where unreached), so that the lane a route through a hub enters its
+// target by can be named (firstLane).
 type hubDist struct {
 	pieces           []int32
 	index            []int32 // per piece: its hub number, or -1
@@ -320,32 +320,19 @@ func (r *ranger) hubSearch(h *hubDist, src int32, targets []int32) error {
 	return nil
 }
 
-// hubEdges calls f on each edge of the route from piece src to piece t
-// through hub i (the hub's two trees), until f returns true; it reports
-// whether one did.
-func (r *ranger) hubEdges(h *hubDist, i, src, t int32, f func(e int32) bool) bool {
-	hp := h.pieces[i]
-	for v, steps := src, 0; v != hp && steps <= r.k; steps++ {
+// intoHub returns the last edge of the route from piece src to hub i (the
+// edge entering the hub; -1 when src is the hub or cannot reach it).
+func (r *ranger) intoHub(h *hubDist, i, src int32) int32 {
+	last := int32(-1)
+	for v, steps := src, 0; v != h.pieces[i] && steps <= r.k; steps++ {
 		e := h.toPred[i][v]
 		if e < 0 {
-			break
+			return -1
 		}
-		if f(e) {
-			return true
-		}
+		last = e
 		v = r.g.comp[r.to[e]]
 	}
-	for v, steps := t, 0; v != hp && steps <= r.k; steps++ {
-		e := h.fromPred[i][v]
-		if e < 0 {
-			break
-		}
-		if f(e) {
-			return true
-		}
-		v = r.g.comp[r.from[e]]
-	}
-	return false
+	return last
 }
 
 // setDist sets a piece's distance after a search.

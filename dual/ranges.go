@@ -859,7 +859,7 @@ func (r *ranger) firstLane(v int32) flow.LaneID {
 	if h := r.viaHub[v]; h >= 0 {
 		i = r.hub.fromPred[h][v]
 		if v == r.hub.pieces[h] {
-			r.hubEdges(r.hub, h, r.viaSrc, v, func(e int32) bool { i = e; return false })
+			i = r.intoHub(r.hub, h, r.viaSrc)
 		}
 	}
 	if i >= 0 && int(r.arcOf[i]) < r.g.m {
