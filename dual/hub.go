@@ -120,32 +120,8 @@ func (r *ranger) hubPieces(rule hubRule, skip int32) []int32 {
 // src from every piece) on routes avoiding piece skip (-1: none), unreached
 // where none. O((k + merged edges) log k).
 func (r *ranger) allDist(src int32, reverse bool, skip int32) ([]int64, error) {
-	r.searches++
-	r.resetSearch()
-	pg := &r.fwdG
-	if reverse {
-		pg = &r.revG
-	}
-	r.dist[src] = 0
-	r.touched = append(r.touched, src)
-	r.heap.push(pieceItem{0, src})
-	for len(r.heap) > 0 {
-		it := r.heap.pop()
-		u := it.piece
-		if r.settled[u] || it.d != r.dist[u] {
-			continue
-		}
-		r.settled[u] = true
-		for c := pg.start[u]; c < pg.start[u+1]; c++ {
-			if pg.to[c] == skip {
-				continue
-			}
-			if err := r.offer(pg.to[c], it.d, pg.w[c]); err != nil {
-				return nil, err
-			}
-		}
-	}
-	return append([]int64(nil), r.dist[:r.k]...), nil
+	d, _, err := r.routesFrom(src, reverse, skip, false)
+	return d, err
 }
 
 // allDistPred is allDist without a piece left out, also returning the
@@ -154,6 +130,12 @@ func (r *ranger) allDist(src int32, reverse bool, skip int32) ([]int64, error) {
 // unreached). Forward, that is the last edge of the route from src;
 // reverse, the first edge of the route to src.
 func (r *ranger) allDistPred(src int32, reverse bool) ([]int64, []int32, error) {
+	return r.routesFrom(src, reverse, -1, true)
+}
+
+// routesFrom is allDist, returning the tree of allDistPred too when
+// withPred is set.
+func (r *ranger) routesFrom(src int32, reverse bool, skip int32, withPred bool) ([]int64, []int32, error) {
 	r.searches++
 	r.resetSearch()
 	pg := &r.fwdG
@@ -172,7 +154,7 @@ func (r *ranger) allDistPred(src int32, reverse bool) ([]int64, []int32, error) 
 		r.settled[u] = true
 		for c := pg.start[u]; c < pg.start[u+1]; c++ {
 			v := pg.to[c]
-			if r.settled[v] {
+			if v == skip || r.settled[v] {
 				continue
 			}
 			nd, err := flow.AddChecked(it.d, pg.w[c])
@@ -182,7 +164,11 @@ func (r *ranger) allDistPred(src int32, reverse bool) ([]int64, []int32, error) 
 			r.relax(v, nd, pg.rep[c])
 		}
 	}
-	return append([]int64(nil), r.dist[:r.k]...), append([]int32(nil), r.pred[:r.k]...), nil
+	dist := append([]int64(nil), r.dist[:r.k]...)
+	if !withPred {
+		return dist, nil, nil
+	}
+	return dist, append([]int32(nil), r.pred[:r.k]...), nil
 }
 
 // resetSearch clears the state of the last search.
@@ -192,31 +178,6 @@ func (r *ranger) resetSearch() {
 	}
 	r.touched = r.touched[:0]
 	r.heap = r.heap[:0]
-}
-
-// offer relaxes piece v to distance d+w, without a predecessor.
-func (r *ranger) offer(v int32, d, w int64) error {
-	return r.offerFrom(v, d, w, -1)
-}
-
-// offerFrom relaxes piece v to distance d+w, recording tag in pred[v] when
-// it improves.
-func (r *ranger) offerFrom(v int32, d, w int64, tag int32) error {
-	if r.settled[v] {
-		return nil
-	}
-	nd, err := flow.AddChecked(d, w)
-	if err != nil {
-		return fmt.Errorf("dual: route cost %w", err)
-	}
-	if r.dist[v] == unreached {
-		r.touched = append(r.touched, v)
-	} else if nd >= r.dist[v] {
-		return nil
-	}
-	r.dist[v], r.pred[v] = nd, tag
-	r.heap.push(pieceItem{nd, v})
-	return nil
 }
 
 // hubSearch sets r.dist[t] for each target piece t to the distance from
