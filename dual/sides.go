@@ -50,7 +50,7 @@ func (r *ranger) forestRanges(forest []int32, s *Sensitivity) error {
 			// Too many neighbours for tables: search from the smaller
 			// side of each cut instead.
 			bp := r.newBigPiece(p, base, size)
-			via, err := r.splitHubs(p, base, size, 1)
+			via, err := r.splitHub(p, base, size)
 			if err != nil {
 				return err
 			}
@@ -66,16 +66,14 @@ func (r *ranger) forestRanges(forest []int32, s *Sensitivity) error {
 			// (two searches per piece; without them, a degenerate optimum
 			// of sparse transportation from another solver made every
 			// search settle half the pieces).
-			var via []*splitHub
+			var via *splitHub
 			if len(lanes) >= minHubSources {
 				var err error
-				if via, err = r.splitHubs(p, base, size, 1); err != nil {
+				if via, err = r.splitHub(p, base, size); err != nil {
 					return err
 				}
-			}
-			for _, h := range via {
-				if h.piece >= 0 {
-					r.hubMark[h.piece] = true
+				if via.piece >= 0 {
+					r.hubMark[via.piece] = true
 				}
 			}
 			for _, e := range lanes {
@@ -83,10 +81,8 @@ func (r *ranger) forestRanges(forest []int32, s *Sensitivity) error {
 					return err
 				}
 			}
-			for _, h := range via {
-				if h.piece >= 0 {
-					r.hubMark[h.piece] = false
-				}
+			if via != nil && via.piece >= 0 {
+				r.hubMark[via.piece] = false
 			}
 		}
 		for c := r.revG.start[p]; c < r.revG.start[p+1]; c++ {
@@ -203,9 +199,9 @@ func (t *sideTable) row(l, end int, subtree bool) {
 // cuts p in two sides; the limits are the cheapest routes between the two
 // sides: an inner edge across the cut (from cover) or a route through
 // other pieces, found with the side tables of p (out, in) or, without them
-// (out nil), with p's edges arranged by bp and the hub via[0]. With the
-// tables, the hubs via (marked in r.hubMark) bound the searches.
-func (r *ranger) splitSides(e int, lr *LaneRange, p, base int32, out, in *sideTable, bp *bigPiece, via []*splitHub) error {
+// (out nil), with p's edges arranged by bp and the hub via. With the
+// tables, the hub via (nil: none; marked in r.hubMark) bounds the searches.
+func (r *ranger) splitSides(e int, lr *LaneRange, p, base int32, out, in *sideTable, bp *bigPiece, via *splitHub) error {
 	g := r.g
 	_, _, _, rate := g.arc(e)
 	t, h := g.tail(e), g.head(e)
@@ -236,13 +232,10 @@ func (r *ranger) splitSides(e int, lr *LaneRange, p, base int32, out, in *sideTa
 			// As below: the cheapest route through a hub bounds the
 			// search, which leaves the hubs out.
 			u, ui := unreached, int32(-1)
-			for _, h := range via {
-				hu, hi, uerr := h.route(l, end, fromSub)
-				if uerr != nil {
+			if via != nil {
+				var uerr error
+				if u, ui, uerr = via.route(l, end, fromSub); uerr != nil {
 					return 0, -1, false, uerr
-				}
-				if hu != unreached && (u == unreached || hu < u || hu == u && hi < ui) {
-					u, ui = hu, hi
 				}
 			}
 			bound := inner
@@ -256,7 +249,7 @@ func (r *ranger) splitSides(e int, lr *LaneRange, p, base int32, out, in *sideTa
 		} else {
 			// The cheapest route through the hub bounds the search, which
 			// then leaves the hub out.
-			u, ui, uerr := via[0].route(l, end, fromSub)
+			u, ui, uerr := via.route(l, end, fromSub)
 			if uerr != nil {
 				return 0, -1, false, uerr
 			}
@@ -264,7 +257,7 @@ func (r *ranger) splitSides(e int, lr *LaneRange, p, base int32, out, in *sideTa
 			if u != unreached && (bound == unreached || u < bound) {
 				bound = u
 			}
-			x, xi, err = r.smallSide(bp, via[0].piece, l, end, fromSub, bound)
+			x, xi, err = r.smallSide(bp, via.piece, l, end, fromSub, bound)
 			if err == nil && u != unreached && (x == unreached || x >= u) {
 				x, xi = u, ui // nothing cheaper without the hub
 			}
@@ -664,24 +657,15 @@ type splitHub struct {
 	inSubBy, inPreBy, inSufBy []int32
 }
 
-// splitHubs returns the splitHubs of piece p (nodes euler[base:
-// base+size]) for up to max hubs chosen by r.hubs among the other pieces
-// (at least one entry, with piece -1 when there is no other piece).
-func (r *ranger) splitHubs(p, base int32, size int, max int32) ([]*splitHub, error) {
-	rule := r.hubs
-	rule.max = min(rule.max, max)
-	var hubs []*splitHub
-	for _, c := range r.hubPieces(rule, p) {
-		h, err := r.newSplitHub(p, base, size, c)
-		if err != nil {
-			return nil, err
-		}
-		hubs = append(hubs, h)
+// splitHub returns the splitHub of piece p (nodes euler[base:
+// base+size]) with the other piece that has the most neighbouring pieces
+// as its hub (piece -1 when there is no other piece).
+func (r *ranger) splitHub(p, base int32, size int) (*splitHub, error) {
+	c := r.hubPieces(hubRule{max: 1}, p)
+	if len(c) == 0 {
+		return &splitHub{piece: -1}, nil
 	}
-	if len(hubs) == 0 {
-		hubs = append(hubs, &splitHub{piece: -1})
-	}
-	return hubs, nil
+	return r.newSplitHub(p, base, size, c[0])
 }
 
 // newSplitHub builds the splitHub of piece p (nodes euler[base:base+size])
