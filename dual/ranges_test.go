@@ -344,16 +344,9 @@ func TestRangesManyPieces(t *testing.T) {
 		o.Nodes = 20 + rng.IntN(41)
 		o.Lanes = 2*o.Nodes + rng.IntN(4*o.Nodes)
 		n := randnet.Network(rng, o)
-		opt, err := dual.Optimize(n, nil, nil)
-		if err != nil {
-			t.Fatal(err)
-		}
-		if opt.Status != flow.Optimal {
+		opt, a := optimalAudit(t, n)
+		if a == nil {
 			continue
-		}
-		a, err := dual.Check(n, opt.Flow)
-		if err != nil {
-			t.Fatal(err)
 		}
 		if a.Pieces >= 10 {
 			manyPieces++
@@ -496,16 +489,9 @@ func TestRangesHubsAgree(t *testing.T) {
 		o.CapFrac = []float64{0.5, 0.9, 1}[rng.IntN(3)]
 		o.MaxRate = []int64{3, 10, 100}[rng.IntN(3)]
 		n := randnet.Network(rng, o)
-		opt, err := dual.Optimize(n, nil, nil)
-		if err != nil {
-			t.Fatal(err)
-		}
-		if opt.Status != flow.Optimal {
+		opt, a := optimalAudit(t, n)
+		if a == nil {
 			continue
-		}
-		a, err := dual.Check(n, opt.Flow)
-		if err != nil {
-			t.Fatal(err)
 		}
 		if a.Pieces >= 16 {
 			withHub++
@@ -650,4 +636,22 @@ func balanced(n *flow.Network) bool {
 		sum += b
 	}
 	return sum == 0
+}
+
+// optimalAudit solves n and audits its optimal plan (nil audit when n has
+// no optimum).
+func optimalAudit(t *testing.T, n *flow.Network) (*dual.Optimum, *dual.Audit) {
+	t.Helper()
+	opt, err := dual.Optimize(n, nil, nil)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if opt.Status != flow.Optimal {
+		return opt, nil
+	}
+	a, err := dual.Check(n, opt.Flow)
+	if err != nil {
+		t.Fatal(err)
+	}
+	return opt, a
 }
