@@ -27,17 +27,10 @@ func SingleBoundsForTest(n *flow.Network, cands []flow.Candidate, cut *flow.Cut)
 	return bounds, has, true, nil
 }
 
-// RangesCheckedForTest is Ranges with every route sum of the side searches
-// checked for overflow (the path taken when rates are near the int64
-// limit).
-func RangesCheckedForTest(n *flow.Network, y []int64, p []int64) (*Sensitivity, error) {
-	return ranges(n, y, p, true, defaultHubs())
-}
-
 // RangesHubsForTest is Ranges with up to max hubs (0: none): the pieces
 // with the most neighbouring pieces, whatever their share.
 func RangesHubsForTest(n *flow.Network, y []int64, p []int64, max int) (*Sensitivity, error) {
-	return ranges(n, y, p, false, hubRule{max: int32(max), share: 1 << 30, minDegree: 0})
+	return ranges(n, y, p, hubRule{max: int32(max), share: 1 << 30, minDegree: 0})
 }
 
 // LaneList exposes laneList (names of candidate lanes in messages).

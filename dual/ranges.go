@@ -2,7 +2,6 @@ package dual
 
 import (
 	"fmt"
-	"math"
 
 	"lanecert/flow"
 )
@@ -69,14 +68,12 @@ type Sensitivity struct {
 // and stopped once they cannot beat the best route. Each is O((k + k') log k) at worst and usually stopped
 // early. Memory O(|V| + |E|) besides the side tables (at most 2^20 cells).
 func Ranges(n *flow.Network, y []int64, p []int64) (*Sensitivity, error) {
-	return ranges(n, y, p, false, defaultHubs())
+	return ranges(n, y, p, defaultHubs())
 }
 
-// ranges is Ranges; with checkSums the side searches check every sum for
-// overflow even when no route can overflow, and hubs says which pieces
-// bound the searches from many sources (tests compare both with the
-// defaults).
-func ranges(n *flow.Network, y []int64, p []int64, checkSums bool, hubs hubRule) (*Sensitivity, error) {
+// ranges is Ranges with hubs saying which pieces bound the searches from
+// many sources (tests compare other rules with the defaults).
+func ranges(n *flow.Network, y []int64, p []int64, hubs hubRule) (*Sensitivity, error) {
 	f, err := flow.CheckPlan(n, y)
 	if err != nil {
 		return nil, err
@@ -93,7 +90,6 @@ func ranges(n *flow.Network, y []int64, p []int64, checkSums bool, hubs hubRule)
 	if err := r.buildEdges(); err != nil {
 		return nil, err
 	}
-	r.sumsFit = r.sumsFit && !checkSums
 	s := &Sensitivity{Lanes: make([]LaneRange, g.m), Nodes: make([]NodePrice, g.nn)}
 	if err := r.lanes(s); err != nil {
 		return nil, err
@@ -164,9 +160,6 @@ type ranger struct {
 	stamp    int32
 	searches int
 	hubs     hubRule
-	// sumsFit: no route of at most k+2 edges (r.w) can overflow, so the
-	// side searches add without checks.
-	sumsFit bool
 }
 
 // pieceGraph is the graph of pieces with parallel edges merged: per piece u
@@ -315,11 +308,6 @@ func (r *ranger) buildEdges() error {
 	}
 	r.fwdG = r.contract(r.start, nil, r.pTo)
 	r.revG = r.contract(r.rstart, r.redges, r.pFrom)
-	var maxW int64
-	for _, w := range r.w {
-		maxW = max(maxW, w)
-	}
-	r.sumsFit = maxW <= math.MaxInt64/int64(k+3)
 	r.subtrees()
 	r.cover()
 	r.reachability()

@@ -356,12 +356,6 @@ func TestRangesManyPieces(t *testing.T) {
 			t.Fatalf("case %d: %v", i, err)
 		}
 		checkRoutes(t, i, n, opt.Flow, a.Potential, s, nil)
-		// The side searches add without overflow checks when no route
-		// can overflow: the checked sums must give the same answer.
-		c, err := dual.RangesCheckedForTest(n, opt.Flow, a.Potential)
-		if err != nil || !reflect.DeepEqual(s, c) {
-			t.Fatalf("case %d: ranges with checked sums differ (%v)", i, err)
-		}
 		// The hubs only bound the searches: no hub, one, or up to eight
 		// of any size must give the same limits and prices (the lanes
 		// named by lower_by and upper_by may differ where routes tie;
