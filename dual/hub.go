@@ -2,11 +2,8 @@ package dual
 
 import (
 	"cmp"
-	"fmt"
 	"slices"
 	"sort"
-
-	"lanecert/flow"
 )
 
 // minHubSources is the number of source pieces from which searching via
@@ -157,10 +154,7 @@ func (r *ranger) routesFrom(src int32, reverse bool, skip int32, withPred bool) 
 			if v == skip || r.settled[v] {
 				continue
 			}
-			nd, err := flow.AddChecked(it.d, pg.w[c])
-			if err != nil {
-				return nil, nil, fmt.Errorf("dual: route cost %w", err)
-			}
+			nd := sat(it.d, pg.w[c])
 			r.relax(v, nd, pg.rep[c])
 		}
 	}
@@ -212,10 +206,7 @@ func (r *ranger) hubSearch(h *hubDist, src int32, targets []int32) error {
 			case t == hp:
 				d = h.to[i][src]
 			case h.to[i][src] != unreached && h.from[i][t] != unreached:
-				var err error
-				if d, err = flow.AddChecked(h.to[i][src], h.from[i][t]); err != nil {
-					return fmt.Errorf("dual: route cost %w", err)
-				}
+				d = sat(h.to[i][src], h.from[i][t])
 			}
 			if d != unreached && (gl.via == unreached || d < gl.via) {
 				gl.via, gl.hub = d, int32(i)
@@ -258,10 +249,7 @@ func (r *ranger) hubSearch(h *hubDist, src int32, targets []int32) error {
 			if r.settled[v] || h.index[v] >= 0 {
 				continue
 			}
-			nd, err := flow.AddChecked(it.d, r.fwdG.w[c])
-			if err != nil {
-				return fmt.Errorf("dual: route cost %w", err)
-			}
+			nd := sat(it.d, r.fwdG.w[c])
 			r.relax(v, nd, r.fwdG.rep[c])
 		}
 	}

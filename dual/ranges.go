@@ -2,6 +2,7 @@ package dual
 
 import (
 	"fmt"
+	"math"
 
 	"lanecert/flow"
 )
@@ -67,6 +68,12 @@ type Sensitivity struct {
 // give the cheapest edges; a hub bounds them when a piece has many cuts)
 // and stopped once they cannot beat the best route. Each is O((k + k') log k) at worst and usually stopped
 // early. Memory O(|V| + |E|) besides the side tables (at most 2^20 cells).
+//
+// Every value is exact. When a limit, a node price or the cost (in reduced
+// costs) of a cheapest route behind one passes the int64 range, Ranges
+// returns an error wrapping flow.ErrOverflow instead; a route that costs
+// more than an int64 holds but decides nothing (a saving of 0, a route
+// that a cheaper one beats) is no error.
 func Ranges(n *flow.Network, y []int64, p []int64) (*Sensitivity, error) {
 	return ranges(n, y, p, defaultHubs())
 }
@@ -174,6 +181,45 @@ type pieceGraph struct {
 }
 
 const unreached = int64(-1) << 63
+
+// beyond stands for a route whose cost passes the int64 range. The
+// searches add distances with saturation (sat), so every distance below
+// beyond is exact; a limit or price that needs a route at beyond is
+// reported as flow.ErrOverflow (beyondErr), never wrapped around.
+const beyond = math.MaxInt64
+
+// sat returns a+b for a distance a >= 0 and a reduced cost b >= 0, or
+// beyond when the sum does not fit.
+func sat(a, b int64) int64 {
+	if b > beyond-a {
+		return beyond
+	}
+	return a + b
+}
+
+// beyondErr is the error of a limit or price behind a route at beyond.
+func beyondErr() error {
+	return fmt.Errorf("dual: a route behind a rate range or node price costs more than an int64 holds: %w", flow.ErrOverflow)
+}
+
+// shift returns base+d (plus) or base-d for a route cost d (not unreached),
+// or flow.ErrOverflow when d is beyond or the result does not fit.
+func shift(base, d int64, plus bool) (int64, error) {
+	if d == beyond {
+		return 0, beyondErr()
+	}
+	var v int64
+	var err error
+	if plus {
+		v, err = flow.AddChecked(base, d)
+	} else {
+		v, err = flow.SubChecked(base, d)
+	}
+	if err != nil {
+		return 0, fmt.Errorf("dual: rate range or node price %w", err)
+	}
+	return v, nil
+}
 
 func newRanger(g *graph, p []int64) *ranger {
 	full := make([]int64, g.numNodes())
@@ -703,10 +749,7 @@ func (r *ranger) search(sources []int32, targets []int32, sp split, exclude int3
 			if r.settled[v] {
 				continue
 			}
-			nd, err := flow.AddChecked(it.d, pg.w[c])
-			if err != nil {
-				return fmt.Errorf("dual: route cost %w", err)
-			}
+			nd := sat(it.d, pg.w[c])
 			r.relax(v, nd, pg.rep[c])
 		}
 	}
@@ -764,10 +807,7 @@ func (r *ranger) relaxEach(it pieceItem, sp split, exclude int32, reverse bool) 
 		if v == u || r.settled[v] {
 			continue
 		}
-		nd, err := flow.AddChecked(it.d, r.w[i])
-		if err != nil {
-			return fmt.Errorf("dual: route cost %w", err)
-		}
+		nd := sat(it.d, r.w[i])
 		r.relax(v, nd, i)
 	}
 	return nil
@@ -900,7 +940,9 @@ func (r *ranger) lanes(s *Sensitivity) error {
 		default: // at capacity
 			if g.comp[h] == g.comp[t] {
 				lr.Upper, lr.HasUpper = diff, true
-				lr.CapacityValue = diff - rate
+				if lr.CapacityValue, err = flow.SubChecked(diff, rate); err != nil {
+					return fmt.Errorf("dual: capacity value %w", err)
+				}
 			} else {
 				add(g.comp[t], query{e, 1})
 				add(g.comp[h], query{e, 2})
@@ -971,12 +1013,18 @@ func (r *ranger) lanes(s *Sensitivity) error {
 			switch q.kind {
 			case 0:
 				if d := r.dist[g.comp[t]]; d != unreached {
-					lr.Lower, lr.HasLower, lr.ByRoute = diff-d, true, true
+					if lr.Lower, err = shift(diff, d, false); err != nil {
+						return err
+					}
+					lr.HasLower, lr.ByRoute = true, true
 					lr.LowerBy = -1
 				}
 			case 1:
 				if d := r.dist[g.comp[h]]; d != unreached {
-					lr.Upper, lr.HasUpper, lr.ByRoute = diff+d, true, true
+					if lr.Upper, err = shift(diff, d, true); err != nil {
+						return err
+					}
+					lr.HasUpper, lr.ByRoute = true, true
 					lr.UpperBy = r.firstLane(g.comp[h])
 				}
 			case 2:
@@ -988,7 +1036,11 @@ func (r *ranger) lanes(s *Sensitivity) error {
 				// lane, and any other is found instead when it is
 				// cheaper. No search without the lane is needed.
 				if d := r.dist[g.comp[t]]; d != unreached {
-					lr.CapacityValue = max(0, diff-rate-d)
+					// diff-rate is the lane's reduced cost backwards, at
+					// least 0 at capacity; beyond d, no saving.
+					if d != beyond {
+						lr.CapacityValue = max(0, diff-rate-d)
+					}
 				}
 			}
 		}
@@ -1023,12 +1075,17 @@ func (r *ranger) nodes(s *Sensitivity) error {
 			return err
 		}
 		for _, v := range vs {
-			if d := r.dist[g.comp[v]]; d != unreached {
-				s.Nodes[v].Up, s.Nodes[v].HasUp = r.p[v]+d, true
-			}
 			if r.keeps(v) {
 				// An origin that keeps supply keeps one unit less.
 				s.Nodes[v].Up, s.Nodes[v].HasUp = 0, true
+				continue
+			}
+			if d := r.dist[g.comp[v]]; d != unreached {
+				up, err := shift(r.p[v], d, true)
+				if err != nil {
+					return err
+				}
+				s.Nodes[v].Up, s.Nodes[v].HasUp = up, true
 			}
 		}
 		if err := r.search([]int32{a}, targets, split{child: -1}, -1, true); err != nil {
@@ -1036,17 +1093,27 @@ func (r *ranger) nodes(s *Sensitivity) error {
 		}
 		for _, v := range vs {
 			d := r.dist[g.comp[v]]
-			if d != unreached {
-				s.Nodes[v].Down, s.Nodes[v].HasDown = r.p[v]-d, true
-			}
 			if g.hold >= 0 && g.n.Supply[v] >= 0 {
 				// One unit less demanded at an origin (or at a node without
 				// supply or demand, which then becomes one) is one more
-				// unit of its supply, which it may keep at no cost.
-				s.Nodes[v].Down, s.Nodes[v].HasDown = max(0, s.Nodes[v].Down), true
-				if d == unreached {
-					s.Nodes[v].Down = 0
+				// unit of its supply, which it may keep at no cost: the
+				// saving is at least 0, and 0 when the route back is
+				// missing or costs more than an int64 holds.
+				// (A difference below the int64 range is below 0.)
+				s.Nodes[v].Down, s.Nodes[v].HasDown = 0, true
+				if d != unreached && d != beyond {
+					if down, err := flow.SubChecked(r.p[v], d); err == nil {
+						s.Nodes[v].Down = max(down, 0)
+					}
 				}
+				continue
+			}
+			if d != unreached {
+				down, err := shift(r.p[v], d, false)
+				if err != nil {
+					return err
+				}
+				s.Nodes[v].Down, s.Nodes[v].HasDown = down, true
 			}
 		}
 	}
@@ -1080,7 +1147,9 @@ func (r *ranger) anchors() []int32 {
 // it runs from the tail to the head: one unit less on the lane and one unit
 // along the route (cost: the upper limit minus the rate). The steps avoid
 // lane e; nil means no such route exists (or the lane cannot move that
-// way). Cost: one search, O(|E| log |V|).
+// way). When the cheapest route costs more, in reduced costs, than an
+// int64 holds, the error wraps flow.ErrOverflow. Cost: one search,
+// O(|E| log |V|).
 func Route(n *flow.Network, y []int64, p []int64, e flow.LaneID, more bool) ([]Step, error) {
 	if (more && y[e] >= n.Upper[e]) || (!more && y[e] <= n.Lower[e]) {
 		return nil, nil
@@ -1133,6 +1202,9 @@ func Route(n *flow.Network, y []int64, p []int64, e flow.LaneID, more bool) ([]S
 	}
 	if src != dst && r.dist[dst] == unreached {
 		return nil, nil
+	}
+	if r.dist[dst] == beyond {
+		return nil, beyondErr() // the route found need not be the cheapest
 	}
 	// Walk the predecessor edges back from dst, then join them through the
 	// pieces' forests.

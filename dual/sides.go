@@ -1,7 +1,6 @@
 package dual
 
 import (
-	"fmt"
 	"sort"
 
 	"lanecert/flow"
@@ -279,14 +278,20 @@ func (r *ranger) splitSides(e int, lr *LaneRange, p, base int32, out, in *sideTa
 		return err
 	}
 	if ok {
-		lr.Lower, lr.HasLower, lr.LowerBy = rate-d, true, by
+		if lr.Lower, err = shift(rate, d, false); err != nil {
+			return err
+		}
+		lr.HasLower, lr.LowerBy = true, by
 	}
 	d, by, ok, err = best(up, upBy, child == t)
 	if err != nil {
 		return err
 	}
 	if ok {
-		lr.Upper, lr.HasUpper, lr.UpperBy = rate+d, true, by
+		if lr.Upper, err = shift(rate, d, true); err != nil {
+			return err
+		}
+		lr.HasUpper, lr.UpperBy = true, by
 	}
 	return nil
 }
@@ -340,10 +345,7 @@ func (r *ranger) sideSearch(p int32, out, in *sideTable, bound int64) (int64, in
 		if r.dist[v] == unreached || b.dist[v] == unreached {
 			return nil
 		}
-		c, err := flow.AddChecked(r.dist[v], b.dist[v])
-		if err != nil {
-			return fmt.Errorf("dual: route cost %w", err)
-		}
+		c := sat(r.dist[v], b.dist[v])
 		if best == unreached || c < best || c == best && b.lab[v] < bestI {
 			best, bestI = c, b.lab[v]
 		}
@@ -400,10 +402,7 @@ func (r *ranger) sideSearch(p int32, out, in *sideTable, bound int64) (int64, in
 				if v == p || r.hubMark[v] || r.settled[v] {
 					continue
 				}
-				nd, err := flow.AddChecked(it.d, r.fwdG.w[c])
-				if err != nil {
-					return 0, -1, fmt.Errorf("dual: route cost %w", err)
-				}
+				nd := sat(it.d, r.fwdG.w[c])
 				if r.dist[v] != unreached && nd >= r.dist[v] {
 					continue
 				}
@@ -425,10 +424,7 @@ func (r *ranger) sideSearch(p int32, out, in *sideTable, bound int64) (int64, in
 				if v == p || r.hubMark[v] || b.settled[v] {
 					continue
 				}
-				nd, err := flow.AddChecked(it.d, r.revG.w[c])
-				if err != nil {
-					return 0, -1, fmt.Errorf("dual: route cost %w", err)
-				}
+				nd := sat(it.d, r.revG.w[c])
 				if b.dist[v] != unreached && (nd > b.dist[v] || nd == b.dist[v] && b.lab[u] >= b.lab[v]) {
 					continue
 				}
@@ -599,10 +595,7 @@ func (r *ranger) smallSide(bp *bigPiece, skip int32, l, end int, fromSub bool, b
 			if !ok {
 				continue
 			}
-			val, err := flow.AddChecked(it.d, r.w[i])
-			if err != nil {
-				return 0, -1, fmt.Errorf("dual: route cost %w", err)
-			}
+			val := sat(it.d, r.w[i])
 			if best == unreached || val < best {
 				best, bestI = val, i
 				if !forward {
@@ -622,10 +615,7 @@ func (r *ranger) smallSide(bp *bigPiece, skip int32, l, end int, fromSub bool, b
 			if v == p || v == skip || r.settled[v] {
 				continue
 			}
-			nd, err := flow.AddChecked(it.d, pg.w[c])
-			if err != nil {
-				return 0, -1, fmt.Errorf("dual: route cost %w", err)
-			}
+			nd := sat(it.d, pg.w[c])
 			if limit != unreached && nd >= limit {
 				continue
 			}
@@ -696,10 +686,7 @@ func (r *ranger) newSplitHub(p, base int32, size int, c int32) (*splitHub, error
 			if r.pTo[i] == h.piece {
 				d = 0
 			}
-			c, err := flow.AddChecked(r.w[i], d)
-			if err != nil {
-				return nil, fmt.Errorf("dual: route cost %w", err)
-			}
+			c := sat(r.w[i], d)
 			if q := r.tin[r.from[i]] - base; better(c, i, h.outSub[q], outBy[q]) {
 				h.outSub[q], outBy[q] = c, i
 			}
@@ -710,10 +697,7 @@ func (r *ranger) newSplitHub(p, base int32, size int, c int32) (*splitHub, error
 			if r.pFrom[i] == h.piece {
 				d = 0
 			}
-			c, err := flow.AddChecked(d, r.w[i])
-			if err != nil {
-				return nil, fmt.Errorf("dual: route cost %w", err)
-			}
+			c := sat(d, r.w[i])
 			if q := r.tin[r.to[i]] - base; better(c, i, h.inSub[q], h.inSubBy[q]) {
 				h.inSub[q], h.inSubBy[q] = c, i
 			}
@@ -771,9 +755,6 @@ func (h *splitHub) route(l, end int, fromSub bool) (int64, int32, error) {
 	if o == unreached || in == unreached {
 		return unreached, -1, nil
 	}
-	d, err := flow.AddChecked(o, in)
-	if err != nil {
-		return 0, -1, fmt.Errorf("dual: route cost %w", err)
-	}
+	d := sat(o, in)
 	return d, by, nil
 }

@@ -1,6 +1,8 @@
 package oracle
 
 import (
+	"math/big"
+
 	"lanecert/flow"
 )
 
@@ -120,4 +122,31 @@ func negativeCycle(arcs []ResidualArc, nodes int) (dist []int64, cycle []Residua
 func Improvable(n *flow.Network, x []int64) bool {
 	_, cycle := NegativeCycle(Residual(n, x))
 	return cycle != nil
+}
+
+// Cheapest returns the cost of a cheapest walk from node from to node to
+// over arcs, leaving out the arcs of lane skip (-1: none), in exact
+// big-integer arithmetic, so sums beyond int64 are kept; nil when to cannot
+// be reached. The arcs must have no cycle of negative cost (the residual
+// network of an optimal plan). Bellman-Ford, O(nodes·len(arcs)).
+func Cheapest(arcs []ResidualArc, nodes, from, to, skip int) *big.Int {
+	dist := make([]*big.Int, nodes)
+	dist[from] = new(big.Int)
+	rate := new(big.Int)
+	for range nodes {
+		changed := false
+		for _, e := range arcs {
+			if dist[e.From] == nil || (skip >= 0 && e.Lane == skip) {
+				continue
+			}
+			d := new(big.Int).Add(dist[e.From], rate.SetInt64(e.Rate))
+			if dist[e.To] == nil || d.Cmp(dist[e.To]) < 0 {
+				dist[e.To], changed = d, true
+			}
+		}
+		if !changed {
+			break
+		}
+	}
+	return dist[to]
 }
