@@ -187,6 +187,12 @@ func reducedChart(d *Document) (chart, error) {
 	if err != nil {
 		return c, fmt.Errorf("reports: reduced-cost chart: %w", err)
 	}
+	if b := &h.Bins[0]; lo == hi && b.Max <= b.Min {
+		// A single value so large that gonum's bin of width 1 rounds
+		// away: give the bin a width the float64 can hold.
+		h.Width = roomAround(lo)
+		b.Max = b.Min + h.Width
+	}
 	h.FillColor = okabe(0x56B4E9)
 	h.LineStyle.Width = vg.Points(0.5)
 	p := newPlot()
@@ -197,6 +203,12 @@ func reducedChart(d *Document) (chart, error) {
 	c.Caption = fmt.Sprintf("%d unused lane(s); %d with a negative reduced cost (each breaks optimality).", len(vals), neg)
 	c.SVG, err = renderChart(p, 6*vg.Inch, 3*vg.Inch, c.Title)
 	return c, err
+}
+
+// roomAround returns a width that float64 arithmetic keeps when added to
+// v: 1, or a millionth of |v| when that is more.
+func roomAround(v float64) float64 {
+	return math.Max(1, math.Abs(v)*1e-6)
 }
 
 // pad widens an axis to include 0 and leaves 5% room beyond the data.
@@ -236,6 +248,11 @@ func newPlot() *plot.Plot {
 // renderChart draws p to an SVG string fit for inlining in HTML: without
 // the XML prologue and comment, sized by its viewBox, with a font fallback.
 func renderChart(p *plot.Plot, w, h vg.Length, label string) (template.HTML, error) {
+	for _, ax := range []*plot.Axis{&p.X, &p.Y} {
+		if ax.Max <= ax.Min { // gonum's ticks need a range
+			ax.Max = ax.Min + roomAround(ax.Min)
+		}
+	}
 	cv := vgsvg.NewWith(vgsvg.UseWH(w, h), vgsvg.EmbedFonts(false))
 	p.Draw(draw.New(cv))
 	var buf bytes.Buffer

@@ -56,13 +56,16 @@ type Document struct {
 	RangesFor     string      `json:"ranges_for,omitempty"`
 	ExtraColumns  []string    `json:"extra_columns"`
 	Notes         []string    `json:"notes"`
-	Caution       string      `json:"caution"`
-	order         []int       // lanes, problem lanes first
-	net           *flow.Network
-	audit         *dual.Audit
-	broken        []bool // per lane: breaks complementary slackness
-	rangeFlow     []int64
-	sens          *dual.Sensitivity
+	// LeftOut says which parts of the report are missing and why (for
+	// now: a sum that exact 64-bit arithmetic cannot hold).
+	LeftOut   []string `json:"left_out"`
+	Caution   string   `json:"caution"`
+	order     []int    // lanes, problem lanes first
+	net       *flow.Network
+	audit     *dual.Audit
+	broken    []bool // per lane: breaks complementary slackness
+	rangeFlow []int64
+	sens      *dual.Sensitivity
 }
 
 // SolverDoc says how the optimum was found.
@@ -222,6 +225,7 @@ func Build(a *dual.Audit, opt *dual.Optimum, in Inputs, rounded []flow.Rounding)
 		Repair:       []ChangeDoc{},
 		ExtraColumns: []string{},
 		Notes:        append([]string{}, n.Notes...),
+		LeftOut:      []string{},
 		Caution:      Caution,
 		net:          n,
 	}

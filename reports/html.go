@@ -316,6 +316,9 @@ func htmlFacts(d *Document) []fact {
 	var f []fact
 	add := func(id, k, v string) { f = append(f, fact{id, k, v}) }
 	add("fact-network", "Network", netLine(d))
+	for i, note := range d.Notes {
+		add(fmt.Sprintf("fact-read-%d", i+1), "Read", note)
+	}
 	add("fact-plan", "Plan", d.Inputs.Plan)
 	add("fact-plan-cost", "Plan cost", d.PlanCost)
 	switch {
@@ -339,6 +342,9 @@ func htmlFacts(d *Document) []fact {
 				add("fact-unique", "Optimum", "not unique: other plans cost as little")
 			}
 		}
+	}
+	for i, l := range d.LeftOut {
+		add(fmt.Sprintf("fact-left-out-%d", i+1), "Left out", l)
 	}
 	if d.DualObjective != nil {
 		add("fact-dual", "Dual objective", fmt.Sprintf("%s = supply terms %s + minimum terms %s + capacity terms %s, equal to the plan cost",

@@ -914,3 +914,68 @@ func BenchmarkHTML(b *testing.B) {
 	}
 	b.ReportMetric(float64(size), "bytes")
 }
+
+// TestHTMLHugeValues renders every format for plans whose rates and
+// reduced costs are near the int64 limit, where float64 cannot tell
+// neighbouring values apart (gonum's axes and histogram bins then need a
+// range made for them). Common practice: hand-made cases.
+func TestHTMLHugeValues(t *testing.T) {
+	const big = int64(1) << 62
+	cases := []struct {
+		name string
+		rate []int64
+		y    []int64
+	}{
+		// Two unused lanes with one huge reduced cost.
+		{"equal", []int64{0, big, big}, []int64{5, 0, 0}},
+		// Reduced costs 2^62 and 2^62-1: the same float64.
+		{"close", []int64{0, big, big - 1}, []int64{5, 0, 0}},
+		// Not optimal: the repair saves about 5·2^62, and the unused
+		// lanes' reduced costs are near -2^62.
+		{"repair", []int64{big, 0, 1}, []int64{5, 0, 0}},
+	}
+	for _, c := range cases {
+		// Three parallel lanes from a plant to a customer.
+		n := &flow.Network{
+			Nodes:  []string{"plant", "customer"},
+			Supply: []int64{5, -5},
+			Tail:   []flow.NodeID{0, 0, 0},
+			Head:   []flow.NodeID{1, 1, 1},
+			Lower:  []int64{0, 0, 0},
+			Upper:  []int64{flow.NoLimit, flow.NoLimit, flow.NoLimit},
+			Rate:   c.rate,
+		}
+		a, err := dual.Check(n, c.y)
+		if err != nil {
+			t.Fatalf("%s: %v", c.name, err)
+		}
+		o, err := dual.Optimize(n, c.y, nil)
+		if err != nil {
+			t.Fatalf("%s: %v", c.name, err)
+		}
+		d, err := reports.Build(a, o, reports.Inputs{Network: c.name}, nil)
+		if err != nil {
+			t.Fatalf("%s: %v", c.name, err)
+		}
+		root := parseHTML(t, renderHTML(t, d, reports.Options{}))
+		chart := byID(root, "chart-reduced")
+		if chart == nil {
+			t.Fatalf("%s: no reduced-cost chart", c.name)
+		}
+		svgs := 0
+		for _, e := range elements(chart) {
+			if e.Data == "svg" {
+				svgs++
+			}
+		}
+		if svgs != 1 {
+			t.Fatalf("%s: %d drawings in the reduced-cost chart, want 1", c.name, svgs)
+		}
+		for _, f := range []reports.Format{reports.Text, reports.Markdown, reports.JSON, reports.CSV} {
+			var buf bytes.Buffer
+			if err := reports.Write(&buf, d, f, reports.Options{}); err != nil {
+				t.Fatalf("%s, %v: %v", c.name, f, err)
+			}
+		}
+	}
+}

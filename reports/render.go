@@ -269,6 +269,9 @@ func writeHuman(w io.Writer, d *Document, opt Options, md bool) error {
 			p.kv("Optimum", "not unique: other plans cost as little")
 		}
 	}
+	for _, l := range d.LeftOut {
+		p.kv("Left out", l)
+	}
 	if d.DualObjective != nil {
 		p.kv("Dual objective", fmt.Sprintf("%s  (supply terms %s, minimum terms %s, capacity terms %s) = plan cost",
 			*d.DualObjective, d.DualTerms.Supply, d.DualTerms.Minimum, d.DualTerms.Capacity))

@@ -184,17 +184,24 @@ func runAudit(o *auditOptions, s streams) error {
 		start = in.Plan.Flow
 	}
 	var opt *dual.Optimum
+	var leftOut []string // what overflow left out
 	if !o.noSolve {
 		prog := progressTo(s.err)
 		opt, err = dual.Optimize(in.Net, start, prog.callbacks(in.Net))
 		prog.done()
-		if err != nil {
+		if errors.Is(err, flow.ErrOverflow) {
+			// The verdict and its certificate stand without the optimum.
+			opt, leftOut = nil, append(leftOut, "the optimal cost, gap and repair: "+err.Error())
+		} else if err != nil {
 			return err
 		}
 	}
 	var sens *dual.Sensitivity
 	if opt != nil && opt.Status == flow.Optimal && !o.noRanges && (o.ranges || in.Net.NumLanes() <= autoRangeLanes) {
-		if sens, err = dual.Ranges(in.Net, opt.Flow, opt.Potential); err != nil {
+		if sens, err = dual.Ranges(in.Net, opt.Flow, opt.Potential); errors.Is(err, flow.ErrOverflow) {
+			// The verdict stands; only the ranges cannot be given exactly.
+			sens, leftOut = nil, append(leftOut, "the rate ranges and node prices: "+err.Error())
+		} else if err != nil {
 			return err
 		}
 	}
@@ -211,6 +218,7 @@ func runAudit(o *auditOptions, s streams) error {
 	if o.shortfall != "" {
 		doc.AddUnmet(in.Plan.Flow, orig)
 	}
+	doc.LeftOut = append(doc.LeftOut, leftOut...)
 	if opt != nil && opt.Status == flow.Infeasible {
 		cut, err := flow.FindCut(in.Net)
 		if err != nil {

@@ -579,3 +579,72 @@ func TestExtendFallsWithoutLimit(t *testing.T) {
 		t.Fatalf("exit %d, stdout %q, stderr %q; want 4 and the cost falling without limit", code, out, errText)
 	}
 }
+
+// TestAuditOverflowLeftOut: plans whose rates are near the int64 limit
+// still get their verdict; what exact 64-bit arithmetic cannot hold is
+// left out, and every report format says which part and why (common
+// practice: hand-made cases, rates 2^62).
+func TestAuditOverflowLeftOut(t *testing.T) {
+	const r = "4611686018427387904" // 2^62
+	cases := []struct {
+		name, min, flow, note string
+	}{
+		// The only other route from 1 to 4 costs 3·2^62, which is the
+		// reduced cost of a lane closing it in any spanning tree: the
+		// solve cannot run in int64.
+		{"solve", "p min 4 4\nn 1 1\nn 4 -1\na 1 4 0 2 0\na 1 2 0 2 " + r + "\na 2 3 0 2 " + r + "\na 3 4 0 2 " + r + "\n",
+			"f 1 4 1\n", "the optimal cost, gap and repair"},
+		// Lanes 2-1 and 3-1 cost 0 and carry nothing, so potentials of 0
+		// price every lane within int64 (each reduced cost at most 2^62);
+		// only the route from 1 to 4 around lane 1-4 (three lanes at
+		// 2^62) passes the int64 range.
+		{"ranges", "p min 4 6\nn 1 1\nn 4 -1\na 2 1 0 2 0\na 3 1 0 2 0\na 1 4 0 2 0\na 1 2 0 2 " + r + "\na 2 3 0 2 " + r + "\na 3 4 0 2 " + r + "\n",
+			"f 1 4 1\n", "the rate ranges and node prices"},
+	}
+	for _, c := range cases {
+		dir := t.TempDir()
+		net, plan := filepath.Join(dir, "wide.min"), filepath.Join(dir, "wide.flow")
+		if err := os.WriteFile(net, []byte(c.min), 0o644); err != nil {
+			t.Fatal(err)
+		}
+		if err := os.WriteFile(plan, []byte(c.flow), 0o644); err != nil {
+			t.Fatal(err)
+		}
+		code, out, errText := runCLI(t, "audit", net, plan, "--format", "json")
+		if code != exitOptimal {
+			t.Fatalf("%s: exit %d, want %d; stderr %q", c.name, code, exitOptimal, errText)
+		}
+		var doc struct {
+			Verdict string   `json:"verdict"`
+			LeftOut []string `json:"left_out"`
+			Ranges  string   `json:"ranges_for"`
+			Optimal *string  `json:"optimal_cost"`
+		}
+		if err := json.Unmarshal([]byte(out), &doc); err != nil {
+			t.Fatal(err)
+		}
+		if doc.Verdict != "optimal" || doc.Ranges != "" {
+			t.Fatalf("%s: verdict %q, ranges for %q", c.name, doc.Verdict, doc.Ranges)
+		}
+		if (doc.Optimal == nil) != (c.name == "solve") {
+			t.Fatalf("%s: optimal cost %v", c.name, doc.Optimal)
+		}
+		found := false
+		for _, n := range doc.LeftOut {
+			found = found || strings.HasPrefix(n, c.note) && strings.Contains(n, flow.ErrOverflow.Error())
+		}
+		if !found || len(doc.LeftOut) != 1 {
+			t.Fatalf("%s: want one part left out, %q: %q", c.name, c.note, doc.LeftOut)
+		}
+		for _, format := range []string{"table", "markdown", "html"} {
+			_, text, _ := runCLI(t, "audit", net, plan, "--format", format)
+			if !strings.Contains(text, "Left out") || !strings.Contains(text, c.note) {
+				t.Fatalf("%s: the %s report does not say what is left out", c.name, format)
+			}
+		}
+		code, _, errText = runCLI(t, "why", net, plan, "3")
+		if code != exitBadInput || !strings.Contains(errText, flow.ErrOverflow.Error()) {
+			t.Fatalf("%s: why: exit %d, stderr %q", c.name, code, errText)
+		}
+	}
+}
