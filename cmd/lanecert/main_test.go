@@ -4,13 +4,19 @@ import (
 	"bytes"
 	"encoding/json"
 	"fmt"
+	"io"
+	"math/big"
+	"math/rand/v2"
 	"os"
 	"path/filepath"
 	"reflect"
 	"strings"
 	"testing"
 
+	"lanecert/dual"
 	"lanecert/flow"
+	"lanecert/internal/longrun"
+	"lanecert/internal/randnet"
 )
 
 func runCLI(t *testing.T, args ...string) (exitCode, string, string) {
@@ -646,5 +652,132 @@ func TestAuditOverflowLeftOut(t *testing.T) {
 		if code != exitBadInput || !strings.Contains(errText, flow.ErrOverflow.Error()) {
 			t.Fatalf("%s: why: exit %d, stderr %q", c.name, code, errText)
 		}
+	}
+}
+
+// TestHugeRatesEveryCommand runs every command on random networks whose
+// rates reach 2^58 to 2^62, so that sums pass the int64 range. No command
+// may panic or wrap: an exit status of 4 must name the overflow (or one of
+// the other known reasons), and every cost the audit states must equal the
+// cost of its plan computed here in big integers; the optimal cost must
+// equal that of the plan lanecert solve writes. Random networks from
+// internal/randnet (common practice: property test).
+func TestHugeRatesEveryCommand(t *testing.T) {
+	rng := rand.New(rand.NewPCG(longrun.Seed(t, 23), 5))
+	dir := t.TempDir()
+	net, plan, solved := filepath.Join(dir, "n.min"), filepath.Join(dir, "n.flow"), filepath.Join(dir, "s.flow")
+	cands := filepath.Join(dir, "c.csv")
+	bigCost := func(n *flow.Network, y []int64) *big.Int {
+		c := new(big.Int)
+		for e, q := range y {
+			c.Add(c, new(big.Int).Mul(big.NewInt(n.Rate[e]), big.NewInt(q)))
+		}
+		return c
+	}
+	write := func(path string, f func(io.Writer) error) {
+		var buf bytes.Buffer
+		if err := f(&buf); err != nil {
+			t.Fatal(err)
+		}
+		if err := os.WriteFile(path, buf.Bytes(), 0o644); err != nil {
+			t.Fatal(err)
+		}
+	}
+	overflowed, checked := 0, 0
+	codes := map[string]int{}
+	for i := range longrun.Cases(t, 80) {
+		o := randnet.RandomOptions(rng)
+		o.MaxRate, o.QtyPlaces, o.RatePlaces = 1000, 0, 0
+		n := randnet.Network(rng, o)
+		var most int64 = 1
+		for _, r := range n.Rate {
+			most = max(most, r, -r)
+		}
+		k := (int64(1) << (58 + rng.IntN(5))) / most
+		for e, r := range n.Rate {
+			n.Rate[e] = r*k - rng.Int64N(k) + k/2
+		}
+		y := append([]int64(nil), n.Lower...)
+		if opt, err := dual.Optimize(n, nil, nil); err == nil && opt.Status == flow.Optimal {
+			copy(y, opt.Flow)
+			if e := rng.IntN(len(y)); y[e] < n.Upper[e] {
+				y[e]++ // most plans then break a balance or lose optimality
+			}
+		}
+		write(net, func(w io.Writer) error { return flow.WriteDIMACS(w, n) })
+		write(cands, func(w io.Writer) error {
+			// Candidate lanes (and bids) at rates up to 2^62.
+			fmt.Fprintln(w, "from,to,rate,max")
+			for range 1 + rng.IntN(4) {
+				fmt.Fprintf(w, "%d,%d,%d,%d\n", 1+rng.IntN(len(n.Nodes)), 1+rng.IntN(len(n.Nodes)), rng.Int64N(int64(1)<<62), 1+rng.IntN(5))
+			}
+			return nil
+		})
+		write(plan, func(w io.Writer) error { return flow.WriteDIMACSPlan(w, n, y, flow.Wide{}) })
+		for _, args := range [][]string{
+			{"audit", net, plan, "--format", "json", "--ranges"},
+			{"audit", net, plan, "--format", "markdown", "--all-lanes"},
+			{"report", net, plan, "-o", filepath.Join(dir, "r.html")},
+			{"repair", net, plan, "-o", filepath.Join(dir, "p.flow")},
+			{"why", net, plan, "1"},
+			{"solve", net, "-o", solved},
+			{"extend", net, "--candidates", cands, "--format", "json"},
+			{"bids", net, plan, cands, "--format", "json"},
+		} {
+			code, out, errText := runCLI(t, args...)
+			codes[fmt.Sprint(args[0], code)]++
+			if code < exitOptimal || code > exitBadInput {
+				t.Fatalf("case %d %v: exit %d", i, args[0], code)
+			}
+			if code == exitBadInput {
+				if !strings.Contains(errText, flow.ErrOverflow.Error()) && !strings.Contains(errText, "no optimum") {
+					t.Fatalf("case %d %v: %s", i, args[0], errText)
+				}
+				overflowed++
+				continue
+			}
+			if args[0] != "audit" || args[2] != plan || args[4] != "json" {
+				continue
+			}
+			var doc struct {
+				Verdict  string  `json:"verdict"`
+				PlanCost string  `json:"plan_cost"`
+				Optimal  *string `json:"optimal_cost"`
+				Gap      *string `json:"gap"`
+			}
+			if err := json.Unmarshal([]byte(out), &doc); err != nil {
+				t.Fatal(err)
+			}
+			if want := bigCost(n, y).String(); doc.PlanCost != want {
+				t.Fatalf("case %d: plan cost %s, exactly %s", i, doc.PlanCost, want)
+			}
+			if doc.Optimal == nil {
+				continue
+			}
+			// The plan solve writes (run now, before the next case).
+			if c, _, e := runCLI(t, "solve", net, "-o", solved); c != exitOptimal {
+				t.Fatalf("case %d: solve exit %d after the audit found the optimum: %s", i, c, e)
+			}
+			in, err := flow.LoadFiles(flow.Files{Network: net, Plan: solved})
+			if err != nil {
+				t.Fatal(err)
+			}
+			opt := bigCost(n, in.Plan.Flow)
+			if *doc.Optimal != opt.String() {
+				t.Fatalf("case %d: optimal cost %s, the solved plan costs %s", i, *doc.Optimal, opt)
+			}
+			gap := new(big.Int).Sub(bigCost(n, y), opt)
+			if feasible := doc.Verdict == "optimal" || doc.Verdict == "not-optimal"; feasible != (doc.Gap != nil) || (feasible && *doc.Gap != gap.String()) {
+				t.Fatalf("case %d (%s): gap %v, exactly %s", i, doc.Verdict, doc.Gap, gap)
+			}
+			if (doc.Verdict == "optimal") != (gap.Sign() == 0) && doc.Gap != nil {
+				t.Fatalf("case %d: verdict %s with a gap of %s", i, doc.Verdict, gap)
+			}
+			checked++
+		}
+	}
+	t.Logf("%d audits' costs checked exactly; %d runs reported an overflow; exit statuses %v", checked, overflowed, codes)
+	if checked < 20 || overflowed < 5 {
+		t.Errorf("%d checked, %d overflowed: the test no longer covers both", checked, overflowed)
 	}
 }
