@@ -883,8 +883,19 @@ func TestHTMLDetailColumns(t *testing.T) {
 // BenchmarkHTML times the page of an optimal plan of a sparse
 // transportation network with 10^5 lanes and its ranges (every lane in
 // the table, as lanecert report writes it); the audit and the ranges are
-// not timed.
+// not timed. BenchmarkTables times the text and Markdown reports of the
+// same plan with every lane (--all-lanes).
 func BenchmarkHTML(b *testing.B) {
+	benchFormat(b, reports.HTML)
+}
+
+func BenchmarkTables(b *testing.B) {
+	for _, f := range []reports.Format{reports.Text, reports.Markdown} {
+		b.Run(fmt.Sprint(f), func(b *testing.B) { benchFormat(b, f) })
+	}
+}
+
+func benchFormat(b *testing.B, f reports.Format) {
 	n := netgen.Transport(8, 5000, 5000, 100000, 1000)
 	sol, err := flow.Solve(n, flow.SolveOptions{})
 	if err != nil || sol.Status != flow.Optimal {
@@ -907,7 +918,7 @@ func BenchmarkHTML(b *testing.B) {
 	var size int
 	for i := 0; i < b.N; i++ {
 		var buf bytes.Buffer
-		if err := reports.Write(&buf, d, reports.HTML, reports.Options{}); err != nil {
+		if err := reports.Write(&buf, d, f, reports.Options{}); err != nil {
 			b.Fatal(err)
 		}
 		size = buf.Len()
