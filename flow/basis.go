@@ -30,6 +30,8 @@ type Basis struct {
 	up                                        []bool
 	xsrc, xtgt                                []int32
 	xcost, xcap                               []int64
+	tarc                                      []treeArc
+	tlist                                     []int32
 }
 
 // Added is the result of Basis.Add: the optimum of the network with the
@@ -232,6 +234,13 @@ func (b *Basis) reset(extra []Candidate) *simplex {
 	w.parent, w.pred, w.thread, w.rthread = b.parent, b.pred, b.thread, b.rthread
 	w.size, w.last, w.up = b.size, b.last, b.up
 	w.xsrc, w.xtgt, w.xcost, w.xcap = b.xsrc, b.xtgt, b.xcost, b.xcap
+	// The tree arcs' copies are w's own, all unloaded (epoch 0 marks none).
+	if len(b.tarc) != len(s.tarc) {
+		b.tarc = make([]treeArc, len(s.tarc))
+	} else {
+		clear(b.tarc)
+	}
+	w.tarc, w.tlist, w.epoch, w.copies = b.tarc, b.tlist[:0], 0, false
 	w.na = s.na + k
 	w.next = s.na // block search starts at the extra lanes
 	w.pivots = 0

@@ -213,6 +213,15 @@ type simplex struct {
 	parent, pred, thread, rthread, size, last []int32
 	up                                        []bool
 	pot                                       []int64
+	// While copies is set (during run and pivot), tarc[v] holds the flow
+	// and capacity of the tree arc pred[v] when tarc[v].mark == epoch
+	// (loaded on first use; tlist lists those nodes): the climb and the
+	// flow update then read node-indexed memory, and flow[] of those
+	// arcs is stale until flushCopies writes it back.
+	tarc   []treeArc
+	tlist  []int32
+	epoch  uint32
+	copies bool
 
 	// scratch for setTree and setForestTree
 	orderBuf, stackBuf []int32
@@ -253,6 +262,46 @@ type simplex struct {
 	pileAlways  bool // SolveOptions.pileAlways
 	swept       bool // the warm start searched by sweeps
 	piled       bool // the warm start searched again after a pile
+}
+
+// treeArc is the flow and capacity (inf: none) of a node's tree arc,
+// valid when mark is the current epoch.
+type treeArc struct {
+	flow, cap int64
+	mark      uint32
+}
+
+// syncCopies starts a span of pivots that keep tree arcs' flows in tarc
+// (a new epoch: nothing loaded yet). O(1) (O(|V|) once in 2^32 spans).
+func (s *simplex) syncCopies() {
+	s.epoch++
+	if s.epoch == 0 {
+		for v := range s.tarc {
+			s.tarc[v].mark = 0
+		}
+		s.epoch = 1
+	}
+	s.tlist = s.tlist[:0]
+	s.copies = true
+}
+
+// loadArc loads tarc[v] from the arc arrays.
+func (s *simplex) loadArc(v int32) treeArc {
+	a := s.pred[v]
+	t := treeArc{s.flow[a], s.capOf(a), s.epoch}
+	s.tarc[v] = t
+	s.tlist = append(s.tlist, v)
+	return t
+}
+
+// flushCopies writes the loaded tree arcs' flows back and ends the span.
+// O(nodes loaded).
+func (s *simplex) flushCopies() {
+	pred, tarc, flow := s.pred, s.tarc, s.flow
+	for _, v := range s.tlist {
+		flow[pred[v]] = tarc[v].flow
+	}
+	s.copies = false
 }
 
 // ends returns the tail and head of arc a.
@@ -409,8 +458,9 @@ func (s *simplex) costOf(a int32) int64 {
 // over the lanes at a bound, each search by sweeps at 12 full sweeps).
 // Memory: the solver reads the Network's lane arrays in place and keeps 9
 // bytes per lane (flows and states; plus 8 more, a copy of the capacities
-// above the minimums, when some lane has a minimum) and about 150 bytes
-// per node; a warm start adds 16 bytes per lane at a bound while it builds
+// above the minimums, when some lane has a minimum) and about 180 bytes
+// per node (among them a copy of each tree arc's flow and capacity by
+// node, which the pivots read instead of the lane arrays); a warm start adds 16 bytes per lane at a bound while it builds
 // its tree (by sweeps: 20 bytes for each of at most |E|/8 lanes read
 // again; by sifting: 1 bit per lane plus the restricted network, at most a
 // quarter of the lanes). The Solution adds 1 byte per lane (InTree), and 8
@@ -477,16 +527,19 @@ func Solve(n *Network, opt SolveOptions) (*Solution, error) {
 		}
 		// Lanes strictly between their bounds outside the tree: pivot
 		// each in, towards lower cost, until it or a tree arc reaches a
-		// bound.
+		// bound (sharing one copy of the tree arcs' flows).
+		s.syncCopies()
 		for _, a := range superbasic {
 			unb, err := s.pivotFree(a)
 			if err != nil {
 				return nil, err
 			}
 			if unb {
+				s.flushCopies()
 				return s.unbounded(sol, s.cycle), nil
 			}
 		}
+		s.flushCopies()
 	} else {
 		if err := validate(); err != nil {
 			return nil, err
@@ -659,6 +712,8 @@ func newSimplex(n *Network, hold bool, excess int64) (*simplex, error) {
 	s.last = make([]int32, nt)
 	s.up = make([]bool, nt)
 	s.pot = make([]int64, nt)
+	s.tarc = make([]treeArc, nt)
+	s.tlist = make([]int32, 0, 64)
 	s.stemNode = make([]int32, nt)
 	s.stemPred = make([]int32, nt)
 	s.stemSize = make([]int32, nt)
@@ -947,6 +1002,8 @@ func (s *simplex) computePotentialsChecked() error {
 // run pivots until no arc is eligible. It returns true when an unbounded
 // cycle was found (recorded in s.cycle).
 func (s *simplex) run() (bool, error) {
+	s.syncCopies()
+	defer s.flushCopies()
 	for {
 		var in int32
 		var r int64
@@ -1145,8 +1202,12 @@ func (s *simplex) reducedChecked(e int32) (int64, error) {
 // It returns true when the cycle has no limit (then s.cycle is set and
 // nothing changes).
 func (s *simplex) pivot(in int32, dir int8, r int64) (bool, error) {
+	if !s.copies {
+		s.syncCopies()
+		defer s.flushCopies()
+	}
 	s.pivots++
-	parent, pred, up, flow := s.parent, s.pred, s.up, s.flow
+	parent, pred, up, flow, tarc, ep := s.parent, s.pred, s.up, s.flow, s.tarc, s.epoch
 	first, second := s.ends(in)
 	if dir < 0 {
 		first, second = second, first
@@ -1165,14 +1226,17 @@ func (s *simplex) pivot(in int32, dir int8, r int64) (bool, error) {
 	leave1, leave2 := int32(-1), int32(-1)
 	for u != v {
 		if su < sv {
-			a := pred[u]
+			t := tarc[u]
+			if t.mark != ep {
+				t = s.loadArc(u)
+			}
 			var d int64
 			if up[u] {
-				d = flow[a]
-			} else if c := s.capOf(a); c == inf {
+				d = t.flow
+			} else if t.cap == inf {
 				d = inf
 			} else {
-				d = c - flow[a]
+				d = t.cap - t.flow
 			}
 			if d < delta1 {
 				delta1, leave1 = d, u
@@ -1180,14 +1244,17 @@ func (s *simplex) pivot(in int32, dir int8, r int64) (bool, error) {
 			u = parent[u]
 			su = size[u]
 		} else {
-			a := pred[v]
+			t := tarc[v]
+			if t.mark != ep {
+				t = s.loadArc(v)
+			}
 			var d int64
 			if !up[v] {
-				d = flow[a]
-			} else if c := s.capOf(a); c == inf {
+				d = t.flow
+			} else if t.cap == inf {
 				d = inf
 			} else {
-				d = c - flow[a]
+				d = t.cap - t.flow
 			}
 			if d <= delta2 {
 				delta2, leave2 = d, v
@@ -1232,26 +1299,26 @@ func (s *simplex) pivot(in int32, dir int8, r int64) (bool, error) {
 		}
 		top1, top2 := int32(-1), int32(-1) // nodes below the apex
 		for u := first; u != apex; u = parent[u] {
-			a := pred[u]
+			t := &tarc[u]
 			if up[u] {
-				flow[a] -= delta
+				t.flow -= delta
 			} else {
-				if s.capOf(a) == inf && flow[a] > maxFlow-delta {
-					return false, s.flowOverflow(a)
+				if t.cap == inf && t.flow > maxFlow-delta {
+					return false, s.flowOverflow(pred[u])
 				}
-				flow[a] += delta
+				t.flow += delta
 			}
 			top1 = u
 		}
 		for u := second; u != apex; u = parent[u] {
-			a := pred[u]
+			t := &tarc[u]
 			if up[u] {
-				if s.capOf(a) == inf && flow[a] > maxFlow-delta {
-					return false, s.flowOverflow(a)
+				if t.cap == inf && t.flow > maxFlow-delta {
+					return false, s.flowOverflow(pred[u])
 				}
-				flow[a] += delta
+				t.flow += delta
 			} else {
-				flow[a] -= delta
+				t.flow -= delta
 			}
 			top2 = u
 		}
@@ -1288,6 +1355,7 @@ func (s *simplex) pivot(in int32, dir int8, r int64) (bool, error) {
 		return false, nil
 	}
 	out := pred[leave]
+	flow[out] = tarc[leave].flow
 	switch {
 	case s.artFixed && s.isArt(out):
 		s.state[out] = stateTree // fixed from now on
@@ -1420,10 +1488,12 @@ func (s *simplex) updateTree(in, uIn, vIn, uOut, apex int32, sigma int64) error 
 
 	// Reverse the stem.
 	acc := int32(0)
+	tarc := s.tarc
 	for i := k; i >= 1; i-- {
 		w := stem[i]
 		par[w] = stem[i-1]
 		pred[w] = sPred[i-1]
+		tarc[w] = tarc[stem[i-1]]
 		up[w] = !sUp[i-1]
 		acc += sSize[i] - sSize[i-1]
 		sz[w] = acc
@@ -1431,6 +1501,7 @@ func (s *simplex) updateTree(in, uIn, vIn, uOut, apex int32, sigma int64) error 
 	}
 	par[uIn] = vIn
 	pred[uIn] = in
+	tarc[uIn] = treeArc{s.flow[in], s.capOf(in), s.epoch}
 	srcIn, _ := s.ends(in)
 	up[uIn] = srcIn == uIn
 	sz[uIn] = sN

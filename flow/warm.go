@@ -217,6 +217,13 @@ func (s *simplex) warmStart(x []int64) (bool, []int32, bool, bool, error) {
 		if err := s.computePotentialsChecked(); err != nil {
 			return false, err
 		}
+		// The pivots below share one copy of the tree arcs' flows.
+		s.syncCopies()
+		defer func() {
+			if s.copies {
+				s.flushCopies()
+			}
+		}()
 		for _, a := range freeTry {
 			if s.state[a] != stateTree {
 				continue // reached a bound already
@@ -273,6 +280,7 @@ func (s *simplex) warmStart(x []int64) (bool, []int32, bool, bool, error) {
 				}
 			}
 		}
+		s.flushCopies()
 		free = free[:0]
 		for i, a := range touched {
 			st := boundState(a)
