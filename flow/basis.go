@@ -237,6 +237,7 @@ func (b *Basis) reset(extra []Candidate) *simplex {
 	// The tree arcs' copies are w's own, all unloaded (epoch 0 marks none).
 	if len(b.tarc) != len(s.tarc) {
 		b.tarc = make([]treeArc, len(s.tarc))
+		b.tlist = make([]int32, 0, len(s.tarc))
 	} else {
 		clear(b.tarc)
 	}

@@ -713,7 +713,7 @@ func newSimplex(n *Network, hold bool, excess int64) (*simplex, error) {
 	s.up = make([]bool, nt)
 	s.pot = make([]int64, nt)
 	s.tarc = make([]treeArc, nt)
-	s.tlist = make([]int32, 0, 64)
+	s.tlist = make([]int32, 0, nt) // a node is listed at most once a span
 	s.stemNode = make([]int32, nt)
 	s.stemPred = make([]int32, nt)
 	s.stemSize = make([]int32, nt)
