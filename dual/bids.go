@@ -309,10 +309,7 @@ func (pr *pricer) breakEvens(pairs [][2]flow.NodeID) ([]int64, []bool, error) {
 	}
 	var hub *hubDist
 	if len(order) >= minHubSources {
-		var err error
-		if hub, err = r.newHub(); err != nil {
-			return nil, nil, err
-		}
+		hub = r.newHub()
 	}
 	var targets []int32
 	for si, src := range order {
@@ -320,14 +317,10 @@ func (pr *pricer) breakEvens(pairs [][2]flow.NodeID) ([]int64, []bool, error) {
 		for _, i := range idx[start[si]:start[si+1]] {
 			targets = append(targets, g.comp[pairs[i][0]])
 		}
-		var err error
 		if hub != nil {
-			err = r.hubSearch(hub, src, targets)
+			r.hubSearch(hub, src, targets)
 		} else {
-			err = r.search([]int32{src}, targets, split{child: -1}, -1, false)
-		}
-		if err != nil {
-			return nil, nil, err
+			r.search([]int32{src}, targets, split{child: -1}, -1, false)
 		}
 		for _, i := range idx[start[si]:start[si+1]] {
 			if d := r.dist[g.comp[pairs[i][0]]]; d != unreached {

@@ -49,27 +49,21 @@ type hubDist struct {
 
 // newHub chooses the hubs and searches from and to each. O(h·(k + merged
 // edges) log k) for h hubs.
-func (r *ranger) newHub() (*hubDist, error) {
+func (r *ranger) newHub() *hubDist {
 	h := &hubDist{index: make([]int32, r.k)}
 	for c := range h.index {
 		h.index[c] = -1
 	}
 	for _, c := range r.hubPieces(r.hubs, -1) {
-		to, toPred, err := r.allDistPred(c, true)
-		if err != nil {
-			return nil, err
-		}
-		from, fromPred, err := r.allDistPred(c, false)
-		if err != nil {
-			return nil, err
-		}
+		to, toPred := r.allDistPred(c, true)
+		from, fromPred := r.allDistPred(c, false)
 		h.index[c] = int32(len(h.pieces))
 		h.pieces = append(h.pieces, c)
 		h.to, h.toPred = append(h.to, to), append(h.toPred, toPred)
 		h.from, h.fromPred = append(h.from, from), append(h.fromPred, fromPred)
 	}
 	r.hub = h
-	return h, nil
+	return h
 }
 
 // hubPieces returns the hubs rule chooses, leaving out piece skip (-1:
@@ -116,9 +110,9 @@ func (r *ranger) hubPieces(rule hubRule, skip int32) []int32 {
 // allDist returns the distances from piece src to every piece (reverse: to
 // src from every piece) on routes avoiding piece skip (-1: none), unreached
 // where none. O((k + merged edges) log k).
-func (r *ranger) allDist(src int32, reverse bool, skip int32) ([]int64, error) {
-	d, _, err := r.routesFrom(src, reverse, skip, false)
-	return d, err
+func (r *ranger) allDist(src int32, reverse bool, skip int32) []int64 {
+	d, _ := r.routesFrom(src, reverse, skip, false)
+	return d
 }
 
 // allDistPred is allDist without a piece left out, also returning the
@@ -126,13 +120,13 @@ func (r *ranger) allDist(src int32, reverse bool, skip int32) ([]int64, error) {
 // it (the least numbered among equally cheap ones; -1 at src and where
 // unreached). Forward, that is the last edge of the route from src;
 // reverse, the first edge of the route to src.
-func (r *ranger) allDistPred(src int32, reverse bool) ([]int64, []int32, error) {
+func (r *ranger) allDistPred(src int32, reverse bool) ([]int64, []int32) {
 	return r.routesFrom(src, reverse, -1, true)
 }
 
 // routesFrom is allDist, returning the tree of allDistPred too when
 // withPred is set.
-func (r *ranger) routesFrom(src int32, reverse bool, skip int32, withPred bool) ([]int64, []int32, error) {
+func (r *ranger) routesFrom(src int32, reverse bool, skip int32, withPred bool) ([]int64, []int32) {
 	r.searches++
 	r.resetSearch()
 	pg := &r.fwdG
@@ -160,9 +154,9 @@ func (r *ranger) routesFrom(src int32, reverse bool, skip int32, withPred bool) 
 	}
 	dist := append([]int64(nil), r.dist[:r.k]...)
 	if !withPred {
-		return dist, nil, nil
+		return dist, nil
 	}
-	return dist, append([]int32(nil), r.pred[:r.k]...), nil
+	return dist, append([]int32(nil), r.pred[:r.k]...)
 }
 
 // resetSearch clears the state of the last search.
@@ -181,7 +175,7 @@ func (r *ranger) resetSearch() {
 // route found to t is the search's (r.pred) or, when r.viaHub[t] >= 0, the
 // route through that hub (firstLane reads either). A search from a hub is
 // not needed: its distances are known.
-func (r *ranger) hubSearch(h *hubDist, src int32, targets []int32) error {
+func (r *ranger) hubSearch(h *hubDist, src int32, targets []int32) {
 	r.searches++
 	r.resetSearch()
 	r.stamp++
@@ -266,7 +260,6 @@ func (r *ranger) hubSearch(h *hubDist, src int32, targets []int32) error {
 			r.viaHub[t] = gl.hub
 		}
 	}
-	return nil
 }
 
 // intoHub returns the last edge of the route from piece src to hub i (the

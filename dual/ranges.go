@@ -685,7 +685,7 @@ func (r *ranger) pieceOf(v int32, sp split) int32 {
 // dist[piece], unreached when not reached) valid until the next search.
 // Without a split it follows the merged edges between pieces (O(k + merged
 // edges) per search at worst, with a binary heap); with one, every edge.
-func (r *ranger) search(sources []int32, targets []int32, sp split, exclude int32, reverse bool) error {
+func (r *ranger) search(sources []int32, targets []int32, sp split, exclude int32, reverse bool) {
 	r.searches++
 	r.resetSearch()
 	r.stamp++
@@ -739,9 +739,7 @@ func (r *ranger) search(sources []int32, targets []int32, sp split, exclude int3
 			left--
 		}
 		if sp.child >= 0 || u == exPiece {
-			if err := r.relaxEach(it, sp, exclude, reverse); err != nil {
-				return err
-			}
+			r.relaxEach(it, sp, exclude, reverse)
 			continue
 		}
 		for c := pg.start[u]; c < pg.start[u+1]; c++ {
@@ -753,7 +751,6 @@ func (r *ranger) search(sources []int32, targets []int32, sp split, exclude int3
 			r.relax(v, nd, pg.rep[c])
 		}
 	}
-	return nil
 }
 
 // relax offers distance nd to piece v by edge i; ties go to the lower edge
@@ -775,7 +772,7 @@ func (r *ranger) relax(v int32, nd int64, i int32) {
 
 // relaxEach relaxes the edges leaving (reverse: entering) the settled piece
 // it one by one, sorting their ends into the sides of a split piece.
-func (r *ranger) relaxEach(it pieceItem, sp split, exclude int32, reverse bool) error {
+func (r *ranger) relaxEach(it pieceItem, sp split, exclude int32, reverse bool) {
 	u := it.piece
 	real := u
 	if int(u) == r.k {
@@ -810,7 +807,6 @@ func (r *ranger) relaxEach(it pieceItem, sp split, exclude int32, reverse bool) 
 		nd := sat(it.d, r.w[i])
 		r.relax(v, nd, i)
 	}
-	return nil
 }
 
 type pieceItem struct {
@@ -979,10 +975,7 @@ func (r *ranger) lanes(s *Sensitivity) error {
 	}
 	var hub *hubDist
 	if len(order) >= minHubSources && r.hubs.max > 0 {
-		var err error
-		if hub, err = r.newHub(); err != nil {
-			return err
-		}
+		hub = r.newHub()
 	}
 	var targets []int32
 	for si, src := range order {
@@ -995,14 +988,10 @@ func (r *ranger) lanes(s *Sensitivity) error {
 				targets = append(targets, g.comp[g.tail(q.lane)])
 			}
 		}
-		var err error
 		if hub != nil {
-			err = r.hubSearch(hub, src, targets)
+			r.hubSearch(hub, src, targets)
 		} else {
-			err = r.search([]int32{src}, targets, split{child: -1}, -1, false)
-		}
-		if err != nil {
-			return err
+			r.search([]int32{src}, targets, split{child: -1}, -1, false)
 		}
 		for _, q := range qs {
 			e := q.lane
@@ -1010,6 +999,7 @@ func (r *ranger) lanes(s *Sensitivity) error {
 			t, h := g.tail(e), g.head(e)
 			diff := r.p[h] - r.p[t] // checked above
 			lr := &s.Lanes[e]
+			var err error
 			switch q.kind {
 			case 0:
 				if d := r.dist[g.comp[t]]; d != unreached {
@@ -1071,9 +1061,7 @@ func (r *ranger) nodes(s *Sensitivity) error {
 		for i, v := range vs {
 			targets[i] = g.comp[v]
 		}
-		if err := r.search([]int32{a}, targets, split{child: -1}, -1, false); err != nil {
-			return err
-		}
+		r.search([]int32{a}, targets, split{child: -1}, -1, false)
 		for _, v := range vs {
 			if r.keeps(v) {
 				// An origin that keeps supply keeps one unit less.
@@ -1088,9 +1076,7 @@ func (r *ranger) nodes(s *Sensitivity) error {
 				s.Nodes[v].Up, s.Nodes[v].HasUp = up, true
 			}
 		}
-		if err := r.search([]int32{a}, targets, split{child: -1}, -1, true); err != nil {
-			return err
-		}
+		r.search([]int32{a}, targets, split{child: -1}, -1, true)
 		for _, v := range vs {
 			d := r.dist[g.comp[v]]
 			if g.hold >= 0 && g.n.Supply[v] >= 0 {
@@ -1191,9 +1177,7 @@ func Route(n *flow.Network, y []int64, p []int64, e flow.LaneID, more bool) ([]S
 			}
 		}
 	}
-	if err := r.search([]int32{src}, []int32{dst}, sp, int32(e), false); err != nil {
-		return nil, err
-	}
+	r.search([]int32{src}, []int32{dst}, sp, int32(e), false)
 	if innerBest != nil && (r.dist[dst] == unreached || innerBest.w <= r.dist[dst]) {
 		ie := *innerBest
 		steps := g.treePath(from, ie.from)

@@ -49,10 +49,7 @@ func (r *ranger) forestRanges(forest []int32, s *Sensitivity) error {
 			// Too many neighbours for tables: search from the smaller
 			// side of each cut instead.
 			bp := r.newBigPiece(p, base, size)
-			via, err := r.splitHub(p, base, size)
-			if err != nil {
-				return err
-			}
+			via := r.splitHub(p, base, size)
 			for _, e := range lanes {
 				if err := r.splitSides(int(e), &s.Lanes[e], p, base, nil, nil, bp, via); err != nil {
 					return err
@@ -67,10 +64,7 @@ func (r *ranger) forestRanges(forest []int32, s *Sensitivity) error {
 			// search settle half the pieces).
 			var via *splitHub
 			if len(lanes) >= minHubSources {
-				var err error
-				if via, err = r.splitHub(p, base, size); err != nil {
-					return err
-				}
+				via = r.splitHub(p, base, size)
 				if via.piece >= 0 {
 					r.hubMark[via.piece] = true
 				}
@@ -214,17 +208,16 @@ func (r *ranger) splitSides(e int, lr *LaneRange, p, base int32, out, in *sideTa
 		down, downBy, up, upBy = up, upBy, down, downBy
 	}
 	l, end := int(r.tin[child]-base), int(r.tout[child]-base)
-	best := func(inner int64, innerBy int32, fromSub bool) (int64, flow.LaneID, bool, error) {
+	best := func(inner int64, innerBy int32, fromSub bool) (int64, flow.LaneID, bool) {
 		d, by := inner, flow.LaneID(-1)
 		if innerBy >= 0 && int(innerBy) < g.m {
 			by = flow.LaneID(innerBy)
 		}
 		if inner == 0 {
-			return d, by, true, nil // no route is cheaper
+			return d, by, true // no route is cheaper
 		}
 		var x int64
 		var xi int32
-		var err error
 		if out != nil {
 			out.row(l, end, fromSub)
 			in.row(l, end, !fromSub)
@@ -232,37 +225,28 @@ func (r *ranger) splitSides(e int, lr *LaneRange, p, base int32, out, in *sideTa
 			// search, which leaves the hubs out.
 			u, ui := unreached, int32(-1)
 			if via != nil {
-				var uerr error
-				if u, ui, uerr = via.route(l, end, fromSub); uerr != nil {
-					return 0, -1, false, uerr
-				}
+				u, ui = via.route(l, end, fromSub)
 			}
 			bound := inner
 			if u != unreached && (bound == unreached || u < bound) {
 				bound = u
 			}
-			x, xi, err = r.sideSearch(p, out, in, bound)
-			if err == nil && u != unreached && (x == unreached || x >= u) {
+			x, xi = r.sideSearch(p, out, in, bound)
+			if u != unreached && (x == unreached || x >= u) {
 				x, xi = u, ui
 			}
 		} else {
 			// The cheapest route through the hub bounds the search, which
 			// then leaves the hub out.
-			u, ui, uerr := via.route(l, end, fromSub)
-			if uerr != nil {
-				return 0, -1, false, uerr
-			}
+			u, ui := via.route(l, end, fromSub)
 			bound := inner
 			if u != unreached && (bound == unreached || u < bound) {
 				bound = u
 			}
-			x, xi, err = r.smallSide(bp, via.piece, l, end, fromSub, bound)
-			if err == nil && u != unreached && (x == unreached || x >= u) {
+			x, xi = r.smallSide(bp, via.piece, l, end, fromSub, bound)
+			if u != unreached && (x == unreached || x >= u) {
 				x, xi = u, ui // nothing cheaper without the hub
 			}
-		}
-		if err != nil {
-			return 0, -1, false, err
 		}
 		if x != unreached && (d == unreached || x < d) {
 			d, by = x, -1
@@ -271,22 +255,17 @@ func (r *ranger) splitSides(e int, lr *LaneRange, p, base int32, out, in *sideTa
 			}
 			lr.ByRoute = true
 		}
-		return d, by, d != unreached, nil
+		return d, by, d != unreached
 	}
-	d, by, ok, err := best(down, downBy, child == h)
-	if err != nil {
-		return err
-	}
+	var err error
+	d, by, ok := best(down, downBy, child == h)
 	if ok {
 		if lr.Lower, err = shift(rate, d, false); err != nil {
 			return err
 		}
 		lr.HasLower, lr.LowerBy = true, by
 	}
-	d, by, ok, err = best(up, upBy, child == t)
-	if err != nil {
-		return err
-	}
+	d, by, ok = best(up, upBy, child == t)
 	if ok {
 		if lr.Upper, err = shift(rate, d, true); err != nil {
 			return err
@@ -335,21 +314,20 @@ func (b *backSearch) reset(n int) {
 // near side only settled, on another solver's optimum of sparse
 // transportation, a third of all pieces per cut; two searches of half the
 // radius settle far fewer.)
-func (r *ranger) sideSearch(p int32, out, in *sideTable, bound int64) (int64, int32, error) {
+func (r *ranger) sideSearch(p int32, out, in *sideTable, bound int64) (int64, int32) {
 	r.searches++
 	r.resetSearch()
 	b := &r.back
 	b.reset(len(r.dist))
 	best, bestI := unreached, int32(-1)
-	meet := func(v int32) error {
+	meet := func(v int32) {
 		if r.dist[v] == unreached || b.dist[v] == unreached {
-			return nil
+			return
 		}
 		c := sat(r.dist[v], b.dist[v])
 		if best == unreached || c < best || c == best && b.lab[v] < bestI {
 			best, bestI = c, b.lab[v]
 		}
-		return nil
 	}
 	for j, i := range out.rowI {
 		if x := r.fwdG.to[int(r.fwdG.start[p])+j]; i >= 0 && !r.hubMark[x] {
@@ -363,9 +341,7 @@ func (r *ranger) sideSearch(p int32, out, in *sideTable, bound int64) (int64, in
 			b.dist[y], b.lab[y] = in.rowW[j], i
 			b.touched = append(b.touched, y)
 			b.heap.push(pieceItem{in.rowW[j], y})
-			if err := meet(y); err != nil {
-				return 0, -1, err
-			}
+			meet(y)
 		}
 	}
 	top := func(h pieceHeap, dist []int64, settled []bool) (int64, pieceHeap) {
@@ -411,9 +387,7 @@ func (r *ranger) sideSearch(p int32, out, in *sideTable, bound int64) (int64, in
 				}
 				r.dist[v] = nd
 				r.heap.push(pieceItem{nd, v})
-				if err := meet(v); err != nil {
-					return 0, -1, err
-				}
+				meet(v)
 			}
 		} else {
 			it := b.heap.pop()
@@ -433,13 +407,11 @@ func (r *ranger) sideSearch(p int32, out, in *sideTable, bound int64) (int64, in
 				}
 				b.dist[v], b.lab[v] = nd, b.lab[u]
 				b.heap.push(pieceItem{nd, v})
-				if err := meet(v); err != nil {
-					return 0, -1, err
-				}
+				meet(v)
 			}
 		}
 	}
-	return best, bestI, nil
+	return best, bestI
 }
 
 // bigPiece arranges the edges between a piece p (nodes euler[base:
@@ -522,7 +494,7 @@ func (r *ranger) newBigPiece(p, base int32, size int) *bigPiece {
 // not looked for. It returns the cost (unreached: none) and the edge
 // entering the far side. O(edges of the smaller side + the pieces settled
 // and their merged edges · log k).
-func (r *ranger) smallSide(bp *bigPiece, skip int32, l, end int, fromSub bool, bound int64) (int64, int32, error) {
+func (r *ranger) smallSide(bp *bigPiece, skip int32, l, end int, fromSub bool, bound int64) (int64, int32) {
 	r.searches++
 	r.resetSearch()
 	p, base := bp.p, bp.base
@@ -629,9 +601,9 @@ func (r *ranger) smallSide(bp *bigPiece, skip int32, l, end int, fromSub bool, b
 		}
 	}
 	if best != unreached && bound != unreached && best >= bound {
-		return unreached, -1, nil
+		return unreached, -1
 	}
-	return best, bestI, nil
+	return best, bestI
 }
 
 // splitHub serves the splits of a piece p without side tables: the hub is
@@ -650,27 +622,21 @@ type splitHub struct {
 // splitHub returns the splitHub of piece p (nodes euler[base:
 // base+size]) with the other piece that has the most neighbouring pieces
 // as its hub (piece -1 when there is no other piece).
-func (r *ranger) splitHub(p, base int32, size int) (*splitHub, error) {
+func (r *ranger) splitHub(p, base int32, size int) *splitHub {
 	c := r.hubPieces(hubRule{max: 1}, p)
 	if len(c) == 0 {
-		return &splitHub{piece: -1}, nil
+		return &splitHub{piece: -1}
 	}
 	return r.newSplitHub(p, base, size, c[0])
 }
 
 // newSplitHub builds the splitHub of piece p (nodes euler[base:base+size])
 // with hub c: two searches and O(size + edges of p).
-func (r *ranger) newSplitHub(p, base int32, size int, c int32) (*splitHub, error) {
+func (r *ranger) newSplitHub(p, base int32, size int, c int32) *splitHub {
 	g := r.g
 	h := &splitHub{piece: c}
-	toHub, err := r.allDist(h.piece, true, p)
-	if err != nil {
-		return nil, err
-	}
-	fromHub, err := r.allDist(h.piece, false, p)
-	if err != nil {
-		return nil, err
-	}
+	toHub := r.allDist(h.piece, true, p)
+	fromHub := r.allDist(h.piece, false, p)
 	none := func(n int) ([]int64, []int32) {
 		w, by := make([]int64, n), make([]int32, n)
 		for i := range by {
@@ -722,16 +688,16 @@ func (r *ranger) newSplitHub(p, base int32, size int, c int32) (*splitHub, error
 		minRow(h.outSub[u:u+1], outBy[u:u+1], h.outSub[u:u+1], outBy[u:u+1], h.outSub[q:q+1], outBy[q:q+1])
 		minRow(h.inSub[u:u+1], h.inSubBy[u:u+1], h.inSub[u:u+1], h.inSubBy[u:u+1], h.inSub[q:q+1], h.inSubBy[q:q+1])
 	}
-	return h, nil
+	return h
 }
 
 // route returns the cheapest route through the hub from the subtree of
 // the node at position l (ending before end; fromSub) or from the rest of
 // the piece, to the other side, with the edge entering the far side
 // (unreached, -1: none).
-func (h *splitHub) route(l, end int, fromSub bool) (int64, int32, error) {
+func (h *splitHub) route(l, end int, fromSub bool) (int64, int32) {
 	if h.piece < 0 {
-		return unreached, -1, nil
+		return unreached, -1
 	}
 	pick := func(sub, pre, suf []int64, subBy, preBy, sufBy []int32, subtree bool) (int64, int32) {
 		if subtree {
@@ -753,8 +719,7 @@ func (h *splitHub) route(l, end int, fromSub bool) (int64, int32, error) {
 	o, _ := pick(h.outSub, h.outPre, h.outSuf, nil, nil, nil, fromSub)
 	in, by := pick(h.inSub, h.inPre, h.inSuf, h.inSubBy, h.inPreBy, h.inSufBy, !fromSub)
 	if o == unreached || in == unreached {
-		return unreached, -1, nil
+		return unreached, -1
 	}
-	d := sat(o, in)
-	return d, by, nil
+	return sat(o, in), by
 }
