@@ -1628,3 +1628,44 @@ func TestSolveSiftDense(t *testing.T) {
 		})
 	}
 }
+
+// TestWarmFreeLaneInTree: a warm start whose tree took in a lane that was
+// still listed as free (strictly between its bounds, outside the first
+// forest). Pivoting that lane "in" would pivot a tree arc around itself;
+// since pivots keep tree arcs' flows in node-indexed copies, that broke a
+// node's balance (found by a long run of TestSolveRandomOracle, seed 73,
+// case 14299, the network below; common practice: regression case). The
+// warm solve must pass the certificate check and cost what the cold
+// solve and the LP oracle find.
+func TestWarmFreeLaneInTree(t *testing.T) {
+	n := &flow.Network{
+		Nodes:  []string{"n1", "n2", "n3", "n4", "n5", "n6", "n7", "n8", "n9", "n10", "n11", "n12"},
+		Supply: []int64{-4, 0, 0, 0, 0, 0, 0, 0, 0, 0, 4, 0},
+		Tail:   []flow.NodeID{9, 5, 2, 9, 1, 2, 10, 4, 2, 5, 2, 9, 3, 9, 1, 1, 7, 0, 2, 9, 8, 8, 9, 5, 4, 1, 8},
+		Head:   []flow.NodeID{5, 11, 3, 5, 4, 1, 0, 3, 1, 2, 9, 10, 5, 5, 2, 2, 11, 9, 3, 6, 4, 10, 1, 8, 0, 4, 9},
+		Lower:  make([]int64, 27),
+		Upper:  []int64{1, 0, 6, 8, 3, 5, 7, 3, 5, 3, 8, 3, 6, 9, 5, 0, 9, 6, 1, 2, 1, 0, 10, 9, 1, 0, 2},
+		Rate:   []int64{-10, 8, -4, -12, 4, 8, 0, 15, 0, -10, 2, 0, -9, -10, -16, 10, 8, 8, 18, 10, -16, 10, -9, 0, -6, 14, 10},
+	}
+	x := make([]int64, len(n.Tail))
+	x[6] = 4 // n11 -> n1 carries the demand
+	warm, err := flow.Solve(n, flow.SolveOptions{Start: x})
+	if err != nil {
+		t.Fatal(err)
+	}
+	if !warm.WarmStarted {
+		t.Fatal("the feasible start was not used")
+	}
+	checkOptimal(t, n, warm)
+	cold, err := flow.Solve(n, flow.SolveOptions{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	res, err := oracle.MinCost(n)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if warm.Cost.Cmp(cold.Cost) != 0 || !oracle.SameCost(warm.Cost, 0, res) {
+		t.Fatalf("warm cost %s, cold %s, oracle %g", warm.Cost.Format(0), cold.Cost.Format(0), res.CostScaled)
+	}
+}

@@ -470,10 +470,16 @@ const (
 // seed with a pile of refusals gained.
 const maxRounds = 1
 
-// pivotFree pivots the free arc a (not in the tree) in, towards lower
-// cost; on a tie towards less flow (a finite limit, so a zero-cost cycle
-// is never called unbounded).
+// pivotFree pivots the free arc a in, towards lower cost; on a tie
+// towards less flow (a finite limit, so a zero-cost cycle is never called
+// unbounded). A free arc the tree already holds (a tree built after the
+// list of free arcs may take one in) is left alone: its cycle would be
+// the arc itself, and pivot keeps a tree arc's flow apart from the lane
+// arrays while it runs.
 func (s *simplex) pivotFree(a int32) (bool, error) {
+	if t, h := s.ends(a); s.pred[t] == a || s.pred[h] == a {
+		return false, nil
+	}
 	r, err := s.reducedChecked(a)
 	if err != nil {
 		return false, err
