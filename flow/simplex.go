@@ -271,9 +271,9 @@ type treeArc struct {
 	mark      uint32
 }
 
-// syncCopies starts a span of pivots that keep tree arcs' flows in tarc
+// beginCopies starts a span of pivots that keep tree arcs' flows in tarc
 // (a new epoch: nothing loaded yet). O(1) (O(|V|) once in 2^32 spans).
-func (s *simplex) syncCopies() {
+func (s *simplex) beginCopies() {
 	s.epoch++
 	if s.epoch == 0 {
 		for v := range s.tarc {
@@ -528,7 +528,7 @@ func Solve(n *Network, opt SolveOptions) (*Solution, error) {
 		// Lanes strictly between their bounds outside the tree: pivot
 		// each in, towards lower cost, until it or a tree arc reaches a
 		// bound (sharing one copy of the tree arcs' flows).
-		s.syncCopies()
+		s.beginCopies()
 		for _, a := range superbasic {
 			unb, err := s.pivotFree(a)
 			if err != nil {
@@ -1002,7 +1002,7 @@ func (s *simplex) computePotentialsChecked() error {
 // run pivots until no arc is eligible. It returns true when an unbounded
 // cycle was found (recorded in s.cycle).
 func (s *simplex) run() (bool, error) {
-	s.syncCopies()
+	s.beginCopies()
 	defer s.flushCopies()
 	for {
 		var in int32
@@ -1203,7 +1203,7 @@ func (s *simplex) reducedChecked(e int32) (int64, error) {
 // nothing changes).
 func (s *simplex) pivot(in int32, dir int8, r int64) (bool, error) {
 	if !s.copies {
-		s.syncCopies()
+		s.beginCopies()
 		defer s.flushCopies()
 	}
 	s.pivots++

@@ -218,7 +218,7 @@ func (s *simplex) warmStart(x []int64) (bool, []int32, bool, bool, error) {
 			return false, err
 		}
 		// The pivots below share one copy of the tree arcs' flows.
-		s.syncCopies()
+		s.beginCopies()
 		defer func() {
 			if s.copies {
 				s.flushCopies()
