@@ -51,4 +51,12 @@
 // less flow; the saving per unit; how many units can move before a bound is
 // hit; the total saving); PlanInfeasible with the violated bounds and
 // balances.
+//
+// # Exact arithmetic
+//
+// Potentials, reduced costs, limits and prices are int64 values in rate
+// units; costs are 128-bit. Every sum is checked: a value that does not fit
+// returns an error wrapping flow.ErrOverflow, never a wrapped-around
+// number. The route searches of Ranges add with saturation, so a route
+// whose cost passes int64 is an error only where a limit or price needs it.
 package dual
