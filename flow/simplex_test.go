@@ -1629,14 +1629,15 @@ func TestSolveSiftDense(t *testing.T) {
 	}
 }
 
-// TestWarmFreeLaneInTree: a warm start whose tree took in a lane that was
-// still listed as free (strictly between its bounds, outside the first
-// forest). Pivoting that lane "in" would pivot a tree arc around itself;
-// since pivots keep tree arcs' flows in node-indexed copies, that broke a
-// node's balance (found by a long run of TestSolveRandomOracle, seed 73,
-// case 14299, the network below; common practice: regression case). The
-// warm solve must pass the certificate check and cost what the cold
-// solve and the LP oracle find.
+// TestWarmFreeLaneInTree: a warm start whose search tree held a lane it
+// also listed to cancel. The lane was then listed twice among the lanes
+// the cancelling round touched, came back as both a forest lane and a
+// free lane outside the forest, and was pivoted "in" around itself; since
+// pivots keep tree arcs' flows in node-indexed copies, that broke a node's
+// balance (found by a long run of TestSolveRandomOracle, seed 73, case
+// 14299, the network below; common practice: regression case). The warm
+// solve must pass the certificate check and cost what the cold solve and
+// the LP oracle find.
 func TestWarmFreeLaneInTree(t *testing.T) {
 	n := &flow.Network{
 		Nodes:  []string{"n1", "n2", "n3", "n4", "n5", "n6", "n7", "n8", "n9", "n10", "n11", "n12"},

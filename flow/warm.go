@@ -300,7 +300,18 @@ func (s *simplex) warmStart(x []int64) (bool, []int32, bool, bool, error) {
 	// The free lanes outside the tree (superbasic) are touched too, so
 	// that they stay in free.
 	cancelInTree := func(try []int32) (bool, error) {
-		touched := append(append([]int32(nil), try...), superbasic...)
+		// Each arc once (cancel's counts follow each listed arc): the
+		// tree just built may hold an arc of try (at a bound, so
+		// degenerate) or a free lane of superbasic; the tree arcs are
+		// listed after them.
+		touched := make([]int32, 0, len(try)+len(superbasic)+nn)
+		for _, list := range [][]int32{try, superbasic} {
+			for _, a := range list {
+				if !s.isTreeArc(a) {
+					touched = append(touched, a)
+				}
+			}
+		}
 		for v := 0; v < nn; v++ {
 			if a := s.pred[v]; int(a) < s.artStart {
 				touched = append(touched, a)
@@ -470,6 +481,12 @@ const (
 // seed with a pile of refusals gained.
 const maxRounds = 1
 
+// isTreeArc reports whether arc a joins one of its ends to its parent.
+func (s *simplex) isTreeArc(a int32) bool {
+	t, h := s.ends(a)
+	return s.pred[t] == a || s.pred[h] == a
+}
+
 // pivotFree pivots the free arc a in, towards lower cost; on a tie
 // towards less flow (a finite limit, so a zero-cost cycle is never called
 // unbounded). A free arc the tree already holds (a tree built after the
@@ -477,7 +494,7 @@ const maxRounds = 1
 // the arc itself, and pivot keeps a tree arc's flow apart from the lane
 // arrays while it runs.
 func (s *simplex) pivotFree(a int32) (bool, error) {
-	if t, h := s.ends(a); s.pred[t] == a || s.pred[h] == a {
+	if s.isTreeArc(a) {
 		return false, nil
 	}
 	r, err := s.reducedChecked(a)
