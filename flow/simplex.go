@@ -460,10 +460,10 @@ func (s *simplex) costOf(a int32) int64 {
 // bytes per lane (flows and states; plus 8 more, a copy of the capacities
 // above the minimums, when some lane has a minimum) and about 180 bytes
 // per node (among them a copy of each tree arc's flow and capacity by
-// node, which the pivots read instead of the lane arrays); a warm start adds 16 bytes per lane at a bound while it builds
-// its tree (by sweeps: 20 bytes for each of at most |E|/8 lanes read
-// again; by sifting: 1 bit per lane plus the restricted network, at most a
-// quarter of the lanes). The Solution adds 1 byte per lane (InTree), and 8
+// node, which the pivots read instead of the lane arrays); a warm start
+// adds 16 bytes per lane at a bound while it builds its tree (by sweeps:
+// 20 bytes for each of at most |E|/8 lanes read again; by sifting: 1 bit
+// per lane plus the restricted network, at most a quarter of the lanes). The Solution adds 1 byte per lane (InTree), and 8
 // per lane for Flow only when some lane has a minimum (otherwise Flow is
 // the solver's flow array).
 //
