@@ -366,7 +366,7 @@ func (r *ranger) sideSearch(p int32, out, in *sideTable, bound int64) (int64, in
 		if bound != unreached && (lim == unreached || bound < lim) {
 			lim = bound
 		}
-		if lim != unreached && tf+tb >= lim {
+		if lim != unreached && sat(tf, tb) >= lim {
 			break
 		}
 		if len(r.heap) <= len(b.heap) {
