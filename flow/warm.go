@@ -401,15 +401,27 @@ func (s *simplex) warmStart(x []int64) (bool, []int32, bool, bool, error) {
 		if err != nil || unb {
 			return true, nil, false, unb, err
 		}
-		var viol []int32
-		if round < insideRounds {
-			// Cancelling changes the forest, and with it the lanes
-			// inside parts: more of them may now have the wrong sign.
-			// Many such lanes make the search refuse many more (the
-			// parts they join rise against each other), so after the
-			// first round they are cancelled first while they are many.
-			if viol = s.insideViolations(comp, rho); round > 0 && len(viol) < minInsideViol {
-				viol = nil
+		// Cancelling changes the forest, and with it the lanes inside
+		// parts: more of them may now have the wrong sign. Many such
+		// lanes make the search refuse many more (the parts they join
+		// rise against each other), so after the first round they are
+		// cancelled first while they are many. The first round counts
+		// them in a pass of its own (there are usually hundreds); a
+		// later one while listing the lanes for the search, which it
+		// gives up at the minInsideViol-th (there are usually none).
+		var viol, inside []int32
+		var pl partLists
+		listed := false
+		switch {
+		case round >= insideRounds:
+		case round == 0 || len(superbasic) > 0:
+			viol = s.insideViolations(comp, rho)
+		default:
+			var in []int32
+			if pl, in = s.buildPartLists(cnt, comp, rho, minInsideViol); len(in) < minInsideViol {
+				inside, listed = in, true
+			} else {
+				viol = in
 			}
 		}
 		if len(viol) > 0 || round < insideRounds && len(superbasic) > 0 {
@@ -428,7 +440,9 @@ func (s *simplex) warmStart(x []int64) (bool, []int32, bool, bool, error) {
 			}
 			continue
 		}
-		pl, inside := s.buildPartLists(cnt, comp, rho)
+		if !listed {
+			pl, inside = s.buildPartLists(cnt, comp, rho, 0)
+		}
 		try, proved, pile := s.completeTree(forest, comp, rho, pl, inside)
 		if len(try) > 0 && (round < maxRounds || pile && !s.piled) {
 			// Lanes the search found closing cycles of negative cost
@@ -580,8 +594,11 @@ type partLists struct {
 // the slots come from the per-node counts cnt (at v+1, arcs inside parts
 // included). Arcs at a bound inside a part whose reduced cost from rho has
 // the wrong sign are returned in viol (none in checked arithmetic, where
-// rho is all zero). One pass over the arcs; 16 bytes per listed arc.
-func (s *simplex) buildPartLists(cnt, comp []int32, rho []int64) (pl partLists, viol []int32) {
+// rho is all zero). When giveUp > 0 and viol reaches that many arcs, the
+// listing stops there (pl is then incomplete, not to be used) and the rest
+// of the pass only collects viol, as insideViolations does. One pass over
+// the arcs; 16 bytes per listed arc.
+func (s *simplex) buildPartLists(cnt, comp []int32, rho []int64, giveUp int) (pl partLists, viol []int32) {
 	nn, m := s.nNodes, s.m
 	pstart := make([]int32, nn+1)
 	for v := 0; v < nn; v++ {
@@ -617,6 +634,9 @@ func (s *simplex) buildPartLists(cnt, comp []int32, rho []int64) (pl partLists, 
 	for a, st := range state {
 		if st != stateTree {
 			add(int32(a), tail[a], head[a], rate[a], st)
+			if giveUp > 0 && len(viol) >= giveUp {
+				return partLists{}, s.insideViolationsFrom(a+1, comp, rho, viol)
+			}
 		}
 	}
 	for a := int32(s.holdStart); a < int32(s.artStart); a++ {
@@ -636,10 +656,16 @@ func (s *simplex) insideViolations(comp []int32, rho []int64) (viol []int32) {
 	if s.checked {
 		return nil
 	}
+	return s.insideViolationsFrom(0, comp, rho, nil)
+}
+
+// insideViolationsFrom appends to viol the arcs insideViolations returns,
+// from lane from on (then the hold arcs).
+func (s *simplex) insideViolationsFrom(from int, comp []int32, rho []int64, viol []int32) []int32 {
 	m := s.m
 	tail, head, rate, state := s.tail[:m], s.head[:m], s.rate[:m], s.state[:m]
-	for a, st := range state {
-		if t, h := tail[a], head[a]; st != stateTree && comp[t] == comp[h] && int64(st)*(rate[a]+rho[t]-rho[h]) < 0 {
+	for a := from; a < m; a++ {
+		if t, h, st := tail[a], head[a], state[a]; st != stateTree && comp[t] == comp[h] && int64(st)*(rate[a]+rho[t]-rho[h]) < 0 {
 			viol = append(viol, int32(a))
 		}
 	}
