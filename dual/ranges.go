@@ -160,6 +160,9 @@ type ranger struct {
 	viaHub []int32
 	viaSrc int32
 	hub    *hubDist
+	// hubTrees are the searches from and to the hubs of split pieces,
+	// kept (see avoidDist).
+	hubTrees []*hubTree
 	// hubMark marks the hubs of the piece whose cuts sideSearch serves;
 	// back is sideSearch's backward half.
 	hubMark  []bool

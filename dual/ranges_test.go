@@ -649,3 +649,44 @@ func optimalAudit(t *testing.T, n *flow.Network) (*dual.Optimum, *dual.Audit) {
 	}
 	return opt, a
 }
+
+// TestAvoidDistAgrees checks the distances of a split piece's hub (the
+// searches from and to it that avoid the piece) taken from one kept search
+// and a search over the piece's subtree in it, against a search over all
+// pieces with the piece left out, for every piece, on random networks
+// whose optima have many pieces and many equal routes (rates of 0-3).
+// The kept search is exact whatever tree of cheapest routes it keeps, so
+// the distances must be equal, not close.
+func TestAvoidDistAgrees(t *testing.T) {
+	rng := rand.New(rand.NewPCG(longrun.Seed(t, 43), 11))
+	compared, many := 0, 0
+	for i := range longrun.Cases(t, 60) {
+		o := randnet.RandomOptions(rng)
+		o.NegativeRates = false
+		o.Infeasible = false
+		o.Nodes = 20 + rng.IntN(121)
+		o.Lanes = 2*o.Nodes + rng.IntN(4*o.Nodes)
+		o.CapFrac = []float64{0.5, 0.9, 1}[rng.IntN(3)]
+		o.MaxRate = []int64{3, 10, 100}[rng.IntN(3)]
+		n := randnet.Network(rng, o)
+		opt, a := optimalAudit(t, n)
+		if a == nil {
+			continue
+		}
+		if a.Pieces >= 16 {
+			many++
+		}
+		c, diff, err := dual.AvoidDistForTest(n, opt.Flow, a.Potential)
+		if err != nil {
+			t.Fatalf("case %d: %v", i, err)
+		}
+		if diff != "" {
+			t.Fatalf("case %d: %s", i, diff)
+		}
+		compared += c
+	}
+	if compared < 1000 || many < 10 {
+		t.Fatalf("only %d comparisons, %d networks with 16 pieces or more", compared, many)
+	}
+	t.Logf("%d searches compared, %d networks with 16 pieces or more", compared, many)
+}
