@@ -344,6 +344,16 @@ func (r *ranger) sideSearch(p int32, out, in *sideTable, bound int64) (int64, in
 			meet(y)
 		}
 	}
+	// A piece offered at a distance d from one end such that every route
+	// through it costs bound or more, or more than the best route found,
+	// could only reach the top of its heap once the search is over: it is
+	// left off the heap (useless), only counted (fLeft, bLeft), so that the
+	// two heaps compare in size, which decides the side to advance, as if
+	// it were on: the search is the same, with smaller heaps.
+	useless := func(d int64) bool {
+		return bound != unreached && d >= bound || best != unreached && d > best
+	}
+	fLeft, bLeft := 0, 0
 	top := func(h pieceHeap, dist []int64, settled []bool) (int64, pieceHeap) {
 		for len(h) > 0 {
 			it := h[0]
@@ -369,7 +379,7 @@ func (r *ranger) sideSearch(p int32, out, in *sideTable, bound int64) (int64, in
 		if lim != unreached && sat(tf, tb) >= lim {
 			break
 		}
-		if len(r.heap) <= len(b.heap) {
+		if len(r.heap)+fLeft <= len(b.heap)+bLeft {
 			it := r.heap.pop()
 			u := it.piece
 			r.settled[u] = true
@@ -386,7 +396,11 @@ func (r *ranger) sideSearch(p int32, out, in *sideTable, bound int64) (int64, in
 					r.touched = append(r.touched, v)
 				}
 				r.dist[v] = nd
-				r.heap.push(pieceItem{nd, v})
+				if useless(nd) {
+					fLeft++
+				} else {
+					r.heap.push(pieceItem{nd, v})
+				}
 				meet(v)
 			}
 		} else {
@@ -406,7 +420,11 @@ func (r *ranger) sideSearch(p int32, out, in *sideTable, bound int64) (int64, in
 					b.touched = append(b.touched, v)
 				}
 				b.dist[v], b.lab[v] = nd, b.lab[u]
-				b.heap.push(pieceItem{nd, v})
+				if useless(nd) {
+					bLeft++
+				} else {
+					b.heap.push(pieceItem{nd, v})
+				}
 				meet(v)
 			}
 		}
