@@ -600,13 +600,15 @@ func (r *ranger) smallSide(bp *bigPiece, skip int32, l, end int, fromSub bool, b
 		if best != unreached && (limit == unreached || best < limit) {
 			limit = best
 		}
+		// (The costs are read in order, the pieces at random: the limit
+		// is tested first.)
 		for c := pg.start[u]; c < pg.start[u+1]; c++ {
-			v := pg.to[c]
-			if v == p || v == skip || r.settled[v] {
-				continue
-			}
 			nd := sat(it.d, pg.w[c])
 			if limit != unreached && nd >= limit {
+				continue
+			}
+			v := pg.to[c]
+			if v == p || v == skip || r.settled[v] {
 				continue
 			}
 			if r.dist[v] == unreached {
