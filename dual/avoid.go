@@ -93,10 +93,12 @@ func (r *ranger) hubTree(src int32, reverse bool) *hubTree {
 // avoidDist returns what allDist(t.src, t.reverse, skip) returns, from the
 // kept search t: its distances outside the subtree of skip, and a search
 // over that subtree alone, started from the edges that enter it from the
-// rest (skip itself is left out, so unreached). O(s + edges at the subtree
-// + s log s) for a subtree of s pieces, plus a copy of k distances.
-func (r *ranger) avoidDist(t *hubTree, skip int32) []int64 {
-	d := append([]int64(nil), t.dist...)
+// rest (skip itself is left out, so unreached). The result is written to
+// buf when it is large enough (the caller's scratch). O(s + edges at the
+// subtree + s log s) for a subtree of s pieces, plus a copy of k
+// distances.
+func (r *ranger) avoidDist(t *hubTree, skip int32, buf []int64) []int64 {
+	d := append(buf[:0], t.dist...)
 	if skip < 0 || t.tin[skip] < 0 {
 		return d
 	}

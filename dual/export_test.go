@@ -68,7 +68,7 @@ func AvoidDistForTest(n *flow.Network, y []int64, p []int64) (int, string, error
 				if skip == src {
 					continue
 				}
-				got := r.avoidDist(t, skip)
+				got := r.avoidDist(t, skip, nil)
 				want := r.allDist(src, reverse, skip)
 				for v := range want {
 					if got[v] != want[v] {

@@ -161,8 +161,10 @@ type ranger struct {
 	viaSrc int32
 	hub    *hubDist
 	// hubTrees are the searches from and to the hubs of split pieces,
-	// kept (see avoidDist).
+	// kept (see avoidDist), and avoidBuf scratch for newSplitHub's
+	// distances.
 	hubTrees []*hubTree
+	avoidBuf [2][]int64
 	// hubMark marks the hubs of the piece whose cuts sideSearch serves;
 	// back is sideSearch's backward half.
 	hubMark  []bool

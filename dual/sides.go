@@ -655,8 +655,9 @@ func (r *ranger) splitHub(p, base int32, size int) *splitHub {
 func (r *ranger) newSplitHub(p, base int32, size int, c int32) *splitHub {
 	g := r.g
 	h := &splitHub{piece: c}
-	toHub := r.avoidDist(r.hubTree(h.piece, true), p)
-	fromHub := r.avoidDist(r.hubTree(h.piece, false), p)
+	toHub := r.avoidDist(r.hubTree(h.piece, true), p, r.avoidBuf[0])
+	fromHub := r.avoidDist(r.hubTree(h.piece, false), p, r.avoidBuf[1])
+	r.avoidBuf[0], r.avoidBuf[1] = toHub, fromHub
 	none := func(n int) ([]int64, []int32) {
 		w, by := make([]int64, n), make([]int32, n)
 		for i := range by {
