@@ -165,10 +165,8 @@ type ranger struct {
 	// distances.
 	hubTrees []*hubTree
 	avoidBuf [2][]int64
-	// hubMark marks the hubs of the piece whose cuts sideSearch serves;
-	// back is sideSearch's backward half.
-	hubMark  []bool
-	back     backSearch
+	// side is sideSearch's state.
+	side     sideState
 	stamp    int32
 	searches int
 	hubs     hubRule
@@ -369,7 +367,6 @@ func (r *ranger) buildEdges() error {
 	r.want = make([]int32, nv)
 	r.inSlot = make([]int32, nv)
 	r.viaHub = make([]int32, nv)
-	r.hubMark = make([]bool, nv)
 	for i := range r.dist {
 		r.dist[i] = unreached
 		r.pred[i] = -1

@@ -66,7 +66,7 @@ func (r *ranger) forestRanges(forest []int32, s *Sensitivity) error {
 			if len(lanes) >= minHubSources {
 				via = r.splitHub(p, base, size)
 				if via.piece >= 0 {
-					r.hubMark[via.piece] = true
+					r.markHub(via.piece, true)
 				}
 			}
 			for _, e := range lanes {
@@ -75,7 +75,7 @@ func (r *ranger) forestRanges(forest []int32, s *Sensitivity) error {
 				}
 			}
 			if via != nil && via.piece >= 0 {
-				r.hubMark[via.piece] = false
+				r.markHub(via.piece, false)
 			}
 		}
 		for c := r.revG.start[p]; c < r.revG.start[p+1]; c++ {
@@ -193,7 +193,7 @@ func (t *sideTable) row(l, end int, subtree bool) {
 // sides: an inner edge across the cut (from cover) or a route through
 // other pieces, found with the side tables of p (out, in) or, without them
 // (out nil), with p's edges arranged by bp and the hub via. With the
-// tables, the hub via (nil: none; marked in r.hubMark) bounds the searches.
+// tables, the hub via (nil: none; marked by markHub) bounds the searches.
 func (r *ranger) splitSides(e int, lr *LaneRange, p, base int32, out, in *sideTable, bp *bigPiece, via *splitHub) error {
 	g := r.g
 	_, _, _, rate := g.arc(e)
@@ -275,29 +275,48 @@ func (r *ranger) splitSides(e int, lr *LaneRange, p, base int32, out, in *sideTa
 	return nil
 }
 
-// backSearch is the state of the backward half of sideSearch.
-type backSearch struct {
-	dist    []int64
-	settled []bool
-	lab     []int32 // the edge into the far side that v's route ends with
-	touched []int32
-	heap    pieceHeap
+// sidePiece is a piece's state in sideSearch, kept together so that an
+// edge relaxed reads one record at a random place, not five arrays: the
+// distances from the near side (fd) and to the far side (bd; unreached:
+// none), the edge into the far side that the backward route ends with
+// (lab), whether each half has settled the piece, and whether the piece
+// is a hub of the piece being split (left out of the searches).
+type sidePiece struct {
+	fd, bd     int64
+	lab        int32
+	fset, bset bool
+	hub        bool
 }
 
-func (b *backSearch) reset(n int) {
-	if b.dist == nil {
-		b.dist = make([]int64, n)
-		b.settled = make([]bool, n)
-		b.lab = make([]int32, n)
-		for i := range b.dist {
-			b.dist[i] = unreached
+// sideState is sideSearch's state, reused: one record per piece, the
+// pieces touched by the last search, and the two halves' heaps.
+type sideState struct {
+	pc           []sidePiece
+	touched      []int32
+	fheap, bheap pieceHeap
+}
+
+// reset clears the last search (allocating the records for n pieces on
+// first use; hub marks stay).
+func (st *sideState) reset(n int) {
+	if st.pc == nil {
+		st.pc = make([]sidePiece, n)
+		for i := range st.pc {
+			st.pc[i].fd, st.pc[i].bd, st.pc[i].lab = unreached, unreached, -1
 		}
 	}
-	for _, v := range b.touched {
-		b.dist[v], b.settled[v], b.lab[v] = unreached, false, -1
+	for _, v := range st.touched {
+		x := &st.pc[v]
+		x.fd, x.bd, x.lab, x.fset, x.bset = unreached, unreached, -1, false, false
 	}
-	b.touched = b.touched[:0]
-	b.heap = b.heap[:0]
+	st.touched = st.touched[:0]
+	st.fheap, st.bheap = st.fheap[:0], st.bheap[:0]
+}
+
+// markHub sets (on) or clears piece c as a hub that sideSearch leaves out.
+func (r *ranger) markHub(c int32, on bool) {
+	r.side.reset(r.k + 1)
+	r.side.pc[c].hub = on
 }
 
 // sideSearch finds the cheapest route from one side of split piece p to
@@ -308,7 +327,7 @@ func (b *backSearch) reset(n int) {
 // backward from the in-neighbours, until the least distances of the two
 // frontiers add up to the best route found or to bound (unreached: no
 // bound); routes costing bound or more are not looked for, nor routes
-// through the pieces r.hubMark marks. Of routes of equal cost it keeps the
+// through the pieces markHub marks. Of routes of equal cost it keeps the
 // one entering the far side by the least edge among those found. It
 // returns the cost (unreached: none) and that edge. (A search from the
 // near side only settled, on another solver's optimum of sparse
@@ -316,32 +335,39 @@ func (b *backSearch) reset(n int) {
 // radius settle far fewer.)
 func (r *ranger) sideSearch(p int32, out, in *sideTable, bound int64) (int64, int32) {
 	r.searches++
-	r.resetSearch()
-	b := &r.back
-	b.reset(len(r.dist))
+	st := &r.side
+	st.reset(r.k + 1)
+	pc := st.pc
 	best, bestI := unreached, int32(-1)
-	meet := func(v int32) {
-		if r.dist[v] == unreached || b.dist[v] == unreached {
+	// touch notes piece v's first offer in this search.
+	touch := func(x *sidePiece, v int32) {
+		if x.fd == unreached && x.bd == unreached {
+			st.touched = append(st.touched, v)
+		}
+	}
+	meet := func(x *sidePiece) {
+		if x.fd == unreached || x.bd == unreached {
 			return
 		}
-		c := sat(r.dist[v], b.dist[v])
-		if best == unreached || c < best || c == best && b.lab[v] < bestI {
-			best, bestI = c, b.lab[v]
+		c := sat(x.fd, x.bd)
+		if best == unreached || c < best || c == best && x.lab < bestI {
+			best, bestI = c, x.lab
 		}
 	}
 	for j, i := range out.rowI {
-		if x := r.fwdG.to[int(r.fwdG.start[p])+j]; i >= 0 && !r.hubMark[x] {
-			r.dist[x] = out.rowW[j]
-			r.touched = append(r.touched, x)
-			r.heap.push(pieceItem{out.rowW[j], x})
+		if x := r.fwdG.to[int(r.fwdG.start[p])+j]; i >= 0 && !pc[x].hub {
+			touch(&pc[x], x)
+			pc[x].fd = out.rowW[j]
+			st.fheap.push(pieceItem{out.rowW[j], x})
 		}
 	}
 	for j, i := range in.rowI {
-		if y := r.revG.to[int(r.revG.start[p])+j]; i >= 0 && !r.hubMark[y] {
-			b.dist[y], b.lab[y] = in.rowW[j], i
-			b.touched = append(b.touched, y)
-			b.heap.push(pieceItem{in.rowW[j], y})
-			meet(y)
+		if y := r.revG.to[int(r.revG.start[p])+j]; i >= 0 && !pc[y].hub {
+			py := &pc[y]
+			touch(py, y)
+			py.bd, py.lab = in.rowW[j], i
+			st.bheap.push(pieceItem{in.rowW[j], y})
+			meet(py)
 		}
 	}
 	// A piece offered at a distance d from one end such that every route
@@ -354,21 +380,30 @@ func (r *ranger) sideSearch(p int32, out, in *sideTable, bound int64) (int64, in
 		return bound != unreached && d >= bound || best != unreached && d > best
 	}
 	fLeft, bLeft := 0, 0
-	top := func(h pieceHeap, dist []int64, settled []bool) (int64, pieceHeap) {
-		for len(h) > 0 {
-			it := h[0]
-			if settled[it.piece] || it.d != dist[it.piece] {
-				h.pop()
+	topF := func() int64 {
+		for len(st.fheap) > 0 {
+			it := st.fheap[0]
+			if x := &pc[it.piece]; x.fset || it.d != x.fd {
+				st.fheap.pop()
 				continue
 			}
-			return it.d, h
+			return it.d
 		}
-		return unreached, h
+		return unreached
+	}
+	topB := func() int64 {
+		for len(st.bheap) > 0 {
+			it := st.bheap[0]
+			if x := &pc[it.piece]; x.bset || it.d != x.bd {
+				st.bheap.pop()
+				continue
+			}
+			return it.d
+		}
+		return unreached
 	}
 	for {
-		var tf, tb int64
-		tf, r.heap = top(r.heap, r.dist, r.settled)
-		tb, b.heap = top(b.heap, b.dist, b.settled)
+		tf, tb := topF(), topB()
 		if tf == unreached || tb == unreached {
 			break
 		}
@@ -379,53 +414,52 @@ func (r *ranger) sideSearch(p int32, out, in *sideTable, bound int64) (int64, in
 		if lim != unreached && sat(tf, tb) >= lim {
 			break
 		}
-		if len(r.heap)+fLeft <= len(b.heap)+bLeft {
-			it := r.heap.pop()
+		if len(st.fheap)+fLeft <= len(st.bheap)+bLeft {
+			it := st.fheap.pop()
 			u := it.piece
-			r.settled[u] = true
+			pc[u].fset = true
 			for c := r.fwdG.start[u]; c < r.fwdG.start[u+1]; c++ {
 				v := r.fwdG.to[c]
-				if v == p || r.hubMark[v] || r.settled[v] {
+				x := &pc[v]
+				if v == p || x.hub || x.fset {
 					continue
 				}
 				nd := sat(it.d, r.fwdG.w[c])
-				if r.dist[v] != unreached && nd >= r.dist[v] {
+				if x.fd != unreached && nd >= x.fd {
 					continue
 				}
-				if r.dist[v] == unreached {
-					r.touched = append(r.touched, v)
-				}
-				r.dist[v] = nd
+				touch(x, v)
+				x.fd = nd
 				if useless(nd) {
 					fLeft++
 				} else {
-					r.heap.push(pieceItem{nd, v})
+					st.fheap.push(pieceItem{nd, v})
 				}
-				meet(v)
+				meet(x)
 			}
 		} else {
-			it := b.heap.pop()
+			it := st.bheap.pop()
 			u := it.piece
-			b.settled[u] = true
+			pc[u].bset = true
+			lab := pc[u].lab
 			for c := r.revG.start[u]; c < r.revG.start[u+1]; c++ {
 				v := r.revG.to[c]
-				if v == p || r.hubMark[v] || b.settled[v] {
+				x := &pc[v]
+				if v == p || x.hub || x.bset {
 					continue
 				}
 				nd := sat(it.d, r.revG.w[c])
-				if b.dist[v] != unreached && (nd > b.dist[v] || nd == b.dist[v] && b.lab[u] >= b.lab[v]) {
+				if x.bd != unreached && (nd > x.bd || nd == x.bd && lab >= x.lab) {
 					continue
 				}
-				if b.dist[v] == unreached {
-					b.touched = append(b.touched, v)
-				}
-				b.dist[v], b.lab[v] = nd, b.lab[u]
+				touch(x, v)
+				x.bd, x.lab = nd, lab
 				if useless(nd) {
 					bLeft++
 				} else {
-					b.heap.push(pieceItem{nd, v})
+					st.bheap.push(pieceItem{nd, v})
 				}
-				meet(v)
+				meet(x)
 			}
 		}
 	}
