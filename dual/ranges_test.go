@@ -474,15 +474,7 @@ func TestRangesHubsAgree(t *testing.T) {
 	rng := rand.New(rand.NewPCG(longrun.Seed(t, 41), 9))
 	withHub := 0
 	for i := range longrun.Cases(t, 80) {
-		o := randnet.RandomOptions(rng)
-		o.NegativeRates = false
-		o.Infeasible = false
-		o.ExcessSupply = false // no hold node: byLaneOK walks lanes only
-		o.Nodes = 40 + rng.IntN(161)
-		o.Lanes = 2*o.Nodes + rng.IntN(4*o.Nodes)
-		o.CapFrac = []float64{0.5, 0.9, 1}[rng.IntN(3)]
-		o.MaxRate = []int64{3, 10, 100}[rng.IntN(3)]
-		n := randnet.Network(rng, o)
+		n := tieHeavyNetwork(rng, 40, 161, false) // no hold node: byLaneOK walks lanes only
 		opt, a := optimalAudit(t, n)
 		if a == nil {
 			continue
@@ -661,14 +653,7 @@ func TestAvoidDistAgrees(t *testing.T) {
 	rng := rand.New(rand.NewPCG(longrun.Seed(t, 43), 11))
 	compared, many := 0, 0
 	for i := range longrun.Cases(t, 60) {
-		o := randnet.RandomOptions(rng)
-		o.NegativeRates = false
-		o.Infeasible = false
-		o.Nodes = 20 + rng.IntN(121)
-		o.Lanes = 2*o.Nodes + rng.IntN(4*o.Nodes)
-		o.CapFrac = []float64{0.5, 0.9, 1}[rng.IntN(3)]
-		o.MaxRate = []int64{3, 10, 100}[rng.IntN(3)]
-		n := randnet.Network(rng, o)
+		n := tieHeavyNetwork(rng, 20, 121, true)
 		opt, a := optimalAudit(t, n)
 		if a == nil {
 			continue
@@ -689,4 +674,23 @@ func TestAvoidDistAgrees(t *testing.T) {
 		t.Fatalf("only %d comparisons, %d networks with 16 pieces or more", compared, many)
 	}
 	t.Logf("%d searches compared, %d networks with 16 pieces or more", compared, many)
+}
+
+// tieHeavyNetwork returns a random feasible network without negative
+// rates whose optimum has many pieces and many equal routes: minNodes to
+// minNodes+spread-1 nodes, two to six lanes per node, half to all of them
+// capacitated, rates up to 3, 10 or 100; with spare supply at random when
+// excess is set, never otherwise.
+func tieHeavyNetwork(rng *rand.Rand, minNodes, spread int, excess bool) *flow.Network {
+	o := randnet.RandomOptions(rng)
+	o.NegativeRates = false
+	o.Infeasible = false
+	if !excess {
+		o.ExcessSupply = false
+	}
+	o.Nodes = minNodes + rng.IntN(spread)
+	o.Lanes = 2*o.Nodes + rng.IntN(4*o.Nodes)
+	o.CapFrac = []float64{0.5, 0.9, 1}[rng.IntN(3)]
+	o.MaxRate = []int64{3, 10, 100}[rng.IntN(3)]
+	return randnet.Network(rng, o)
 }

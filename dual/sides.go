@@ -380,22 +380,18 @@ func (r *ranger) sideSearch(p int32, out, in *sideTable, bound int64) (int64, in
 		return bound != unreached && d >= bound || best != unreached && d > best
 	}
 	fLeft, bLeft := 0, 0
-	topF := func() int64 {
-		for len(st.fheap) > 0 {
-			it := st.fheap[0]
-			if x := &pc[it.piece]; x.fset || it.d != x.fd {
-				st.fheap.pop()
-				continue
+	// top drops the stale entries off a half's heap and returns its least
+	// distance (unreached: empty).
+	top := func(h *pieceHeap, back bool) int64 {
+		for len(*h) > 0 {
+			it := (*h)[0]
+			x := &pc[it.piece]
+			set, d := x.fset, x.fd
+			if back {
+				set, d = x.bset, x.bd
 			}
-			return it.d
-		}
-		return unreached
-	}
-	topB := func() int64 {
-		for len(st.bheap) > 0 {
-			it := st.bheap[0]
-			if x := &pc[it.piece]; x.bset || it.d != x.bd {
-				st.bheap.pop()
+			if set || it.d != d {
+				h.pop()
 				continue
 			}
 			return it.d
@@ -403,7 +399,7 @@ func (r *ranger) sideSearch(p int32, out, in *sideTable, bound int64) (int64, in
 		return unreached
 	}
 	for {
-		tf, tb := topF(), topB()
+		tf, tb := top(&st.fheap, false), top(&st.bheap, true)
 		if tf == unreached || tb == unreached {
 			break
 		}
