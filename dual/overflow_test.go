@@ -288,6 +288,12 @@ func TestRangesNearOverflow(t *testing.T) {
 			t.Fatalf("case %d: %v", i, err)
 		}
 		y, p := opt.Flow, a.Potential
+		// The kept hub searches add with saturation as the full ones do.
+		if _, diff, err := dual.AvoidDistForTest(n, y, p); err != nil && !errors.Is(err, flow.ErrOverflow) {
+			t.Fatalf("case %d: %v", i, err)
+		} else if diff != "" {
+			t.Fatalf("case %d: %s", i, diff)
+		}
 		want := exactSensitivity(n, y, p)
 		s, err := dual.Ranges(n, y, p)
 		if err != nil {
