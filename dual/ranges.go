@@ -816,7 +816,7 @@ type pieceItem struct {
 	piece int32
 }
 
-// pieceHeap is a binary min-heap of pieces by (distance, piece).
+// pieceHeap is a binary min-heap of pieces by (distance, piece) (TestPieceHeapOrder).
 type pieceHeap []pieceItem
 
 func (a pieceItem) less(b pieceItem) bool {
