@@ -417,11 +417,10 @@ func (s *simplex) warmStart(x []int64) (bool, []int32, bool, bool, error) {
 		case round == 0 || len(superbasic) > 0:
 			viol = s.insideViolations(comp, rho)
 		default:
-			var in []int32
-			if pl, in = s.buildPartLists(cnt, comp, rho, minInsideViol); len(in) < minInsideViol {
-				inside, listed = in, true
+			if pl, inside = s.buildPartLists(cnt, comp, rho, minInsideViol); len(inside) >= minInsideViol {
+				viol, inside = inside, nil // the lists were given up
 			} else {
-				viol = in
+				listed = true
 			}
 		}
 		if len(viol) > 0 || round < insideRounds && len(superbasic) > 0 {
