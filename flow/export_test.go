@@ -37,3 +37,12 @@ func Piled(sol *Solution) bool { return sol.piled }
 func SolvePiling(n *Network, start []int64) (*Solution, error) {
 	return Solve(n, SolveOptions{Start: start, pileAlways: true})
 }
+
+// SolveWithoutCrash is Solve with a cold start from the artificial tree
+// alone, without the first pivots of crash.
+func SolveWithoutCrash(n *Network) (*Solution, error) {
+	return Solve(n, SolveOptions{noCrash: true})
+}
+
+// CrashPivots returns the pivots crash made at the start of a cold solve.
+func CrashPivots(sol *Solution) int64 { return sol.crashed }

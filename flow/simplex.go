@@ -89,6 +89,9 @@ type SolveOptions struct {
 	// pileAlways takes every first search of a warm start by lists that
 	// refuses an arc for a pile (tests: see pileRefusals).
 	pileAlways bool
+	// noCrash starts a cold solve from the artificial tree without the
+	// first pivots of crash (tests: both must reach the same optimum).
+	noCrash bool
 }
 
 // Solution is the result of Solve.
@@ -137,10 +140,11 @@ type Solution struct {
 	// demand (SolvePricedShortfall).
 	Attempt []int64
 
-	sim    *simplex // with SolveOptions.keepSim
-	sifted bool     // the warm start sifted (tests)
-	swept  bool     // the warm start searched by sweeps (tests)
-	piled  bool     // the warm start searched again after a pile (tests)
+	sim     *simplex // with SolveOptions.keepSim
+	sifted  bool     // the warm start sifted (tests)
+	swept   bool     // the warm start searched by sweeps (tests)
+	piled   bool     // the warm start searched again after a pile (tests)
+	crashed int64    // pivots made by crash (tests)
 }
 
 // Arc states. An arc that is not in the tree is at its lower bound
@@ -260,6 +264,7 @@ type simplex struct {
 	sweepAlways bool // SolveOptions.sweepAlways
 	noRounds    bool // SolveOptions.noRounds
 	pileAlways  bool // SolveOptions.pileAlways
+	noCrash     bool // SolveOptions.noCrash
 	swept       bool // the warm start searched by sweeps
 	piled       bool // the warm start searched again after a pile
 }
@@ -374,7 +379,10 @@ func (s *simplex) costOf(a int32) int64 {
 // and block search for the entering arc (blocks of about sqrt(|E|) arcs).
 // A cold start first minimises with artificial arcs of cost
 // M = |V|·maxRate + 1 (or, when sums of that size could overflow, with
-// cost 1 on the artificial arcs and 0 on the lanes); an artificial arc
+// cost 1 on the artificial arcs and 0 on the lanes). Its first pivots
+// need no pricing: each destination's cheapest entering lane enters the
+// all-artificial tree, cheapest first, while still eligible (see crash).
+// An artificial arc
 // that leaves the tree is not priced again (when artificial flow remains at
 // the end, a phase one with every artificial arc free settles the
 // shortfall). It then finishes with artificial arcs of cost 0 that keep
@@ -453,7 +461,8 @@ func (s *simplex) costOf(a int32) int64 {
 // Cost: each pivot takes O(sqrt(|E|)) arc scans plus time linear in the
 // length of the cycle and the size of the moved subtree; the number of
 // pivots is finite but not polynomially bounded in the worst case (in
-// practice a small multiple of |V|); a warm start adds O(|V|+|E|) to build
+// practice a small multiple of |V|); a cold start adds O(|V| log |V| + |E|)
+// to choose its first pivots, a warm start O(|V|+|E|) to build
 // its first tree (each search by lists is capped at about eight passes
 // over the lanes at a bound, each search by sweeps at 12 full sweeps).
 // Memory: the solver reads the Network's lane arrays in place and keeps 9
@@ -496,7 +505,7 @@ func Solve(n *Network, opt SolveOptions) (*Solution, error) {
 	}
 	s.progress, s.placing = opt.Progress, opt.Placing
 	s.keep = opt.Keep
-	s.sweepAlways, s.noRounds, s.pileAlways = opt.sweepAlways, opt.noRounds, opt.pileAlways
+	s.sweepAlways, s.noRounds, s.pileAlways, s.noCrash = opt.sweepAlways, opt.noRounds, opt.pileAlways, opt.noCrash
 	sol := &Solution{}
 
 	warm, proved := false, false
@@ -579,7 +588,14 @@ func Solve(n *Network, opt SolveOptions) (*Solution, error) {
 		// a phase one with all of them free settles the shortfall.
 		s.artFixed = true
 		s.computePotentials()
-		unb, err := s.run()
+		var unb bool
+		if !s.noCrash {
+			unb, err = s.crash()
+			sol.crashed = s.pivots
+		}
+		if err == nil && !unb {
+			unb, err = s.run()
+		}
 		if err != nil {
 			return nil, err
 		}
