@@ -56,23 +56,14 @@ func (s *simplex) crash() (bool, error) {
 	defer s.flushCopies()
 	for _, v := range dest {
 		a := in[v]
-		st := s.state[a]
-		if st == stateTree {
+		r, ok, err := s.eligible(a)
+		if err != nil {
+			return false, err
+		}
+		if !ok {
 			continue
 		}
-		var r int64
-		if s.checked {
-			var err error
-			if r, err = s.reducedChecked(a); err != nil {
-				return false, err
-			}
-		} else {
-			r = s.reduced(a)
-		}
-		if int64(st)*r >= 0 {
-			continue
-		}
-		if unb, err := s.pivot(a, st, r); err != nil || unb {
+		if unb, err := s.pivot(a, s.state[a], r); err != nil || unb {
 			return unb, err
 		}
 	}

@@ -1200,6 +1200,25 @@ func (s *simplex) reduced(a int32) int64 {
 	return s.xcost[j] + s.pot[s.xsrc[j]] - s.pot[s.xtgt[j]]
 }
 
+// eligible returns arc a's reduced cost (with overflow checks in checked
+// arithmetic) and whether a may enter the tree: it is at a bound (not in
+// the tree, not fixed) and its reduced cost has the sign that lowers the
+// cost from there.
+func (s *simplex) eligible(a int32) (r int64, ok bool, err error) {
+	st := s.state[a]
+	if st == stateTree {
+		return 0, false, nil
+	}
+	if s.checked {
+		if r, err = s.reducedChecked(a); err != nil {
+			return 0, false, err
+		}
+	} else {
+		r = s.reduced(a)
+	}
+	return r, int64(st)*r < 0, nil
+}
+
 func (s *simplex) reducedChecked(e int32) (int64, error) {
 	t, h := s.ends(e)
 	r, err := AddChecked(s.costOf(e), s.pot[t])

@@ -242,24 +242,15 @@ func (s *simplex) warmStart(x []int64) (bool, []int32, bool, bool, error) {
 				best, bestR := -1, int64(0)
 				keep := rest[:0]
 				for _, a := range rest {
-					st := s.state[a]
-					if st == stateTree {
-						continue
+					r, ok, err := s.eligible(a)
+					if err != nil {
+						return false, err
 					}
-					var r int64
-					if s.checked {
-						var err error
-						if r, err = s.reducedChecked(a); err != nil {
-							return false, err
-						}
-					} else {
-						r = s.reduced(a)
-					}
-					if int64(st)*r >= 0 {
+					if !ok {
 						continue
 					}
 					if k >= maxPicks {
-						if unb, err := s.pivot(a, st, r); err != nil || unb {
+						if unb, err := s.pivot(a, s.state[a], r); err != nil || unb {
 							return unb, err
 						}
 						continue
