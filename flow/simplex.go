@@ -382,15 +382,14 @@ func (s *simplex) costOf(a int32) int64 {
 // cost 1 on the artificial arcs and 0 on the lanes). Its first pivots
 // need no pricing: each destination's cheapest entering lane enters the
 // all-artificial tree, cheapest first, while still eligible (see crash).
-// An artificial arc
-// that leaves the tree is not priced again (when artificial flow remains at
-// the end, a phase one with every artificial arc free settles the
-// shortfall). It then finishes with artificial arcs of cost 0 that keep
-// zero flow, so no potential carries M. Flows and potentials are exact
-// int64; a sum that could overflow returns an error wrapping ErrOverflow,
-// never a wrong answer. The cost
-// is kept per pivot (flow moved times the entering lane's reduced cost)
-// in 128 bits, not recomputed at the end.
+// An artificial arc that leaves the tree is not priced again (when
+// artificial flow remains at the end, a phase one with every artificial
+// arc free settles the shortfall). It then finishes with artificial arcs
+// of cost 0 that keep zero flow, so no potential carries M. Flows and
+// potentials are exact int64; a sum that could overflow returns an error
+// wrapping ErrOverflow, never a wrong answer. The cost is kept per pivot
+// (flow moved times the entering lane's reduced cost) in 128 bits, not
+// recomputed at the end.
 //
 // Warm start (opt.Start feasible): one pass over the lanes checks the
 // lanes (as n.Validate) and the plan, sets the flows, the plan's cost and
