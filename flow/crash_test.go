@@ -1,13 +1,11 @@
 package flow_test
 
 import (
-	"fmt"
 	"math/rand/v2"
 	"testing"
 
 	"lanecert/flow"
 	"lanecert/internal/longrun"
-	"lanecert/internal/randnet"
 )
 
 // TestCrashSmall checks the first pivots of a cold solve (each
@@ -133,12 +131,7 @@ func TestCrashOracle(t *testing.T) {
 	rng := rand.New(rand.NewPCG(longrun.Seed(t, 20261203), 7))
 	crashed, solves := 0, 0
 	for i := range longrun.Cases(t, 600) {
-		o := randnet.RandomOptions(rng)
-		if i%3 == 2 {
-			o.Kind, o.NegativeRates = randnet.General, true
-		}
-		n := randnet.Network(rng, o)
-		name := fmt.Sprintf("case %d (%d nodes, %d lanes)", i, len(n.Nodes), len(n.Tail))
+		n, name := mixedNetwork(rng, i, 3)
 		sol, err := flow.Solve(n, flow.SolveOptions{})
 		if err != nil {
 			t.Fatalf("%s: %v", name, err)

@@ -1102,18 +1102,25 @@ func shortfallOracle(t *testing.T, n *flow.Network) int64 {
 // TestSolveRandomOracle compares Solve with the gonum LP oracle on 1500
 // seeded random networks: status, optimal cost, certificate, unbounded
 // cycle, shortfall, warm start from a feasible plan, and determinism.
+// mixedNetwork returns random network i of a test (internal/randnet's
+// random options) and a name for its messages. When i % every is
+// every-1 the network is a general one with negative rates, so that
+// unbounded cases come up.
+func mixedNetwork(rng *rand.Rand, i, every int) (*flow.Network, string) {
+	o := randnet.RandomOptions(rng)
+	if i%every == every-1 {
+		o.Kind, o.NegativeRates = randnet.General, true
+	}
+	n := randnet.Network(rng, o)
+	return n, fmt.Sprintf("case %d (%d nodes, %d lanes)", i, len(n.Nodes), len(n.Tail))
+}
+
 func TestSolveRandomOracle(t *testing.T) {
 	rng := rand.New(rand.NewPCG(longrun.Seed(t, 20240601), 1))
 	counts := map[flow.Status]int{}
 	warmUsed := 0
 	for i := range longrun.Cases(t, 1500) {
-		o := randnet.RandomOptions(rng)
-		if i%4 == 3 {
-			// More general networks with negative rates: unbounded cases.
-			o.Kind, o.NegativeRates = randnet.General, true
-		}
-		n := randnet.Network(rng, o)
-		name := fmt.Sprintf("case %d (%d nodes, %d lanes)", i, len(n.Nodes), len(n.Tail))
+		n, name := mixedNetwork(rng, i, 4)
 		sol, err := flow.Solve(n, flow.SolveOptions{})
 		if err != nil {
 			t.Fatalf("%s: %v", name, err)
