@@ -742,7 +742,7 @@ func (s *simplex) completeTree(forest, comp []int32, rho []int64, pl partLists, 
 		}
 		q.root = first
 		search(first)
-		pile = q.nref >= pileRefusals && q.rootRef >= q.nref-q.nref/pileShare || s.pileAlways && q.nref > 0
+		pile = isPile(q.nref, q.rootRef) || s.pileAlways && q.nref > 0
 	}
 	// Parts not reached (or dropped after the search was capped) start
 	// searches of their own, hanging from R.
@@ -783,16 +783,28 @@ func (s *simplex) completeTree(forest, comp []int32, rho []int64, pl partLists, 
 // lanes and searches once more, even after rounds inside parts (which
 // maxRounds does not allow otherwise). When the refusals spread over
 // other parts, the plan has several wrong lanes, a second search refuses
-// as many again, and it does not pay. Counted on the repairs of
-// BENCHMARKS.md (eighth session): netgen_a1e5 seed 2006, perturbation
-// seed 14, refused 6,748 times, 99.9 % through the root (3,177 pivots;
-// 170 with the second search); the sparse transportation instances
-// refused up to 49,421 times, at most 94 % through the root; the general
-// networks' other repairs refused at most 281 times.
+// as many again, and it does not pay.
+//
+// Counted on the repairs of BENCHMARKS.md (fourteenth session: 8
+// general networks of 10^5 lanes, 20 perturbations each): the three
+// piles, 1,003-1,420 refusals, went 99.3-100 % through the root and made
+// 2,674-3,975 pivots; a second search cut the instructions of those
+// repairs to 0.54x, 0.56x and 0.99x. Below them the most refusals were
+// 187, at most 961 pivots a repair, and a second search there cost more
+// than it saved (1.09x and 1.25x the instructions with a threshold of
+// 128). The eighth session's pile had 6,748 refusals. The sparse
+// transportation instances refused up to 49,421 times, at most 94 %
+// through the root.
 const (
-	pileRefusals = 2 * maxRefused
+	pileRefusals = 512
 	pileShare    = 100
 )
+
+// isPile reports whether a first search that refused nref times, rootRef
+// of them through its root part, made a pile (see pileRefusals).
+func isPile(nref, rootRef int) bool {
+	return nref >= pileRefusals && rootRef >= nref-nref/pileShare
+}
 
 // partSearch is the label-correcting search of completeTree over the
 // parts of a forest (indexed by their smallest node): a part's lab is
