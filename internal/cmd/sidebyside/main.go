@@ -18,6 +18,10 @@
 //	go run ./internal/cmd/sidebyside -ref '/tmp/kit/lemon_mcf -n 5' \
 //	    -bench /tmp/flow.test -rounds 3 -seeds 11-22 a.min b.min
 //
+// On a machine whose cores differ under load, pin the whole run to one
+// core (taskset -c 0 sidebyside ...): the reference and the test binaries
+// inherit the pinning, so every program meets the same core.
+//
 // The reference is a command line, split at spaces, to which the file is
 // appended; it must print its solve time as "solve_s=SECONDS" (as the
 // measuring kit's solvers do). With several test binaries (-bench a,b: two
