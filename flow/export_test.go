@@ -46,3 +46,16 @@ func SolveWithoutCrash(n *Network) (*Solution, error) {
 
 // CrashPivots returns the pivots crash made at the start of a cold solve.
 func CrashPivots(sol *Solution) int64 { return sol.crashed }
+
+// SolveCheckingRounds is Solve from start with the warm start's rounds
+// checked (see checkRound): what is wrong is in RoundFaults.
+func SolveCheckingRounds(n *Network, start []int64) (*Solution, error) {
+	return Solve(n, SolveOptions{Start: start, checkRounds: true})
+}
+
+// RoundFaults returns what SolveCheckingRounds found wrong.
+func RoundFaults(sol *Solution) []string { return sol.faults }
+
+// WithinPasses returns the passes over the lanes that the warm start's
+// cancelling made inside parts (see maxWithinPasses).
+func WithinPasses(sol *Solution) int { return sol.within }

@@ -92,6 +92,10 @@ type SolveOptions struct {
 	// noCrash starts a cold solve from the artificial tree without the
 	// first pivots of crash (tests: both must reach the same optimum).
 	noCrash bool
+	// checkRounds checks the counts and the lanes inside parts at each
+	// round of a warm start by lists after the first (tests: see
+	// checkRound; what is wrong goes to Solution.faults).
+	checkRounds bool
 }
 
 // Solution is the result of Solve.
@@ -145,6 +149,8 @@ type Solution struct {
 	swept   bool     // the warm start searched by sweeps (tests)
 	piled   bool     // the warm start searched again after a pile (tests)
 	crashed int64    // pivots made by crash (tests)
+	within  int      // passes of the warm start inside parts (tests)
+	faults  []string // with SolveOptions.checkRounds (tests)
 }
 
 // Arc states. An arc that is not in the tree is at its lower bound
@@ -267,6 +273,10 @@ type simplex struct {
 	noCrash     bool // SolveOptions.noCrash
 	swept       bool // the warm start searched by sweeps
 	piled       bool // the warm start searched again after a pile
+	checkRounds bool // SolveOptions.checkRounds
+
+	withinPasses int      // passes of the warm start inside parts
+	faults       []string // found by checkRound
 }
 
 // treeArc is the flow and capacity (inf: none) of a node's tree arc,
@@ -400,11 +410,17 @@ func (s *simplex) costOf(a int32) int64 {
 // wrong sign: each closes a cycle of negative cost with the forest. In a
 // tree of the forest's parts hung from R, the free lanes that close a
 // cycle are pivoted in (towards lower cost), then those lanes, most
-// violating first, which cancels the cycles. That changes the forest;
-// while free lanes still close cycles or one pass finds at least
-// minInsideViol lanes with the wrong sign, they are cancelled again (up to
-// maxInsideRounds rounds; free lanes left then are pivoted in after the
-// search). A pass then lists the
+// violating first, which cancels the cycles. The pivots move the
+// potentials inside the parts they cross: passes over the lanes inside
+// parts (listed by the second pass) find those at a bound that now have
+// the wrong sign, and pivot them in the same way, until a pass finds
+// none (at most maxWithinPasses). The forest of the new plan then splits
+// the parts, with the same potentials up to a constant in each, and has
+// no such lane. (Should free lanes
+// still close cycles, or a later round find at least minInsideViol lanes
+// with the wrong sign, they are cancelled again, up to maxInsideRounds
+// rounds; free lanes left then are pivoted in after the search.) A pass
+// then lists the
 // lanes at a bound between parts under the part their spare direction
 // leads to (zero flow: the head's; full: the tail's), each with the part
 // at its other end and the offset between the two parts that gives it
@@ -422,7 +438,8 @@ func (s *simplex) costOf(a int32) int64 {
 // from the new plan (one round of cancelling in all, maxRounds; one more
 // when the first search refused a pile of lanes on its root part, see
 // pileRefusals); then block search finishes. A plan that is optimal
-// except for a few cycles thus needs four or five passes over the lanes,
+// except for a few cycles thus needs four or five passes over the lanes
+// and a few over the lanes inside parts,
 // one or two searches over the lanes at a bound, a few pivots per cycle
 // and the final pricing (skipped when the last search, refusing nothing,
 // reached every part: its tree is then optimal).
@@ -469,11 +486,13 @@ func (s *simplex) costOf(a int32) int64 {
 // above the minimums, when some lane has a minimum) and about 180 bytes
 // per node (among them a copy of each tree arc's flow and capacity by
 // node, which the pivots read instead of the lane arrays); a warm start
-// adds 16 bytes per lane at a bound while it builds its tree (by sweeps:
-// 20 bytes for each of at most |E|/8 lanes read again; by sifting: 1 bit
-// per lane plus the restricted network, at most a quarter of the lanes). The Solution adds 1 byte per lane (InTree), and 8
-// per lane for Flow only when some lane has a minimum (otherwise Flow is
-// the solver's flow array).
+// adds 16 bytes per lane at a bound while it builds its tree and, while
+// it cancels inside parts, 4 per lane inside a part and 1 bit per lane
+// (by sweeps: 20 bytes for each of at most |E|/8 lanes read again; by
+// sifting: 1 bit per lane plus the restricted network, at most a quarter
+// of the lanes). The Solution adds 1 byte per lane (InTree), and 8 per
+// lane for Flow only when some lane has a minimum (otherwise Flow is the
+// solver's flow array).
 //
 // The error is non-nil only when n is invalid (n.Validate) or a value
 // overflows; infeasible and unbounded problems are Status values.
@@ -505,6 +524,7 @@ func Solve(n *Network, opt SolveOptions) (*Solution, error) {
 	s.progress, s.placing = opt.Progress, opt.Placing
 	s.keep = opt.Keep
 	s.sweepAlways, s.noRounds, s.pileAlways, s.noCrash = opt.sweepAlways, opt.noRounds, opt.pileAlways, opt.noCrash
+	s.checkRounds = opt.checkRounds
 	sol := &Solution{}
 
 	warm, proved := false, false
@@ -529,6 +549,7 @@ func Solve(n *Network, opt SolveOptions) (*Solution, error) {
 	sol.WarmStarted = warm
 	sol.swept = warm && s.swept
 	sol.piled = warm && s.piled
+	sol.within, sol.faults = s.withinPasses, s.faults
 	if warm {
 		if err := s.computePotentialsChecked(); err != nil {
 			return nil, err

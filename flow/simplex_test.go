@@ -1355,7 +1355,8 @@ func TestSolveSiftOracle(t *testing.T) {
 // hold because the warm start cancels again the lanes inside parts with
 // the wrong sign of reduced cost while many remain (maxInsideRounds). With
 // one round only, the median was 327 and the total 13,608 against a cold
-// solve's 6,588 pivots; with the rounds, 124 and 7,704.
+// solve's 6,588 pivots; with the rounds, 124 and 7,704; with the passes
+// inside parts (maxWithinPasses), 42 and 2,639 against 6,831.
 func TestSolveRepairSpread(t *testing.T) {
 	n := netgen.General(23, 3000, 20000, 150, 150, 0.3, 100)
 	sol := solveOptimal(t, n)
@@ -1429,10 +1430,13 @@ func TestSolveNoRoundsOracle(t *testing.T) {
 // refused lanes are cancelled in the tree of the first search, after the
 // rounds inside parts, and the lists and the search are made again from
 // the new plan). Plans moved around 10 cycles from the optimum
-// (netgen.Perturb) of small general and transportation networks, some
-// with excess supply, must be repaired to the cost of gonum's LP simplex
-// (internal/oracle; the two smallest networks) and the cold solve,
-// with a certificate the independent checker accepts.
+// (netgen.Perturb) and feasible plans from randnet, half each, of small
+// general and transportation networks, some with excess supply, must be
+// repaired to the cost of gonum's LP simplex (internal/oracle; the two
+// smallest networks) and the cold solve, with a certificate the
+// independent checker accepts. (The feasible plans are far from the
+// optimum: since the passes inside parts, a plan moved around 10 cycles
+// seldom leaves the first search anything to refuse, 38 of 240 here.)
 func TestSolvePileRepair(t *testing.T) {
 	piled, solves := 0, 0
 	for i := uint64(1); i <= uint64(longrun.Cases(t, 12)); i++ {
@@ -1454,17 +1458,23 @@ func TestSolvePileRepair(t *testing.T) {
 				}
 				res = &r
 			}
+			rng := rand.New(rand.NewPCG(seed, uint64(k)))
 			for ps := uint64(0); ps < 4; ps++ {
 				y := netgen.Perturb(seed*10+ps, n, sol.Flow, sol.InTree, 10)
+				if ps%2 == 1 {
+					if x, ok := randnet.FeasiblePlan(rng, n); ok {
+						y = x
+					}
+				}
 				w, err := flow.SolvePiling(n, y)
 				if err != nil {
-					t.Fatalf("%s, perturbation %d: %v", name, ps, err)
+					t.Fatalf("%s, start %d: %v", name, ps, err)
 				}
 				solves++
 				if flow.Piled(w) {
 					piled++
 				}
-				pname := fmt.Sprintf("%s, perturbation %d", name, ps)
+				pname := fmt.Sprintf("%s, start %d", name, ps)
 				if res != nil {
 					checkWarm(t, pname, n, w, sol, *res)
 					continue
@@ -1482,6 +1492,77 @@ func TestSolvePileRepair(t *testing.T) {
 	t.Logf("%d of %d repairs searched again after a pile", piled, solves)
 	if piled < solves/4 {
 		t.Errorf("only %d of %d repairs searched again after a pile", piled, solves)
+	}
+}
+
+// TestSolveWithinParts checks the warm start's passes inside parts (its
+// first cancelling passes over the lanes again until no lane inside the
+// parts it started from has the wrong sign; see maxWithinPasses), with
+// the rounds checked (SolveCheckingRounds): at every round after the
+// first the counts of lanes at a bound follow their states, and a round
+// after passes that ended with nothing left finds no lane inside its
+// parts with the wrong sign either (its parts split the earlier ones).
+// Starts: a feasible plan from randnet (far from the optimum: many
+// passes) and the optimum moved around 10 cycles (netgen.Perturb), on
+// small random networks against gonum's LP simplex (internal/oracle)
+// and the cold solve, and on general networks of 3,000 nodes, with and
+// without excess supply, against the cold solve; every solve with a
+// certificate the independent checker accepts.
+func TestSolveWithinParts(t *testing.T) {
+	rng := rand.New(rand.NewPCG(longrun.Seed(t, 20261203), 1))
+	solves, several := 0, 0
+	check := func(name string, n *flow.Network, y []int64, sol *flow.Solution, res *oracle.Result) {
+		t.Helper()
+		w, err := flow.SolveCheckingRounds(n, y)
+		if err != nil {
+			t.Fatalf("%s: %v", name, err)
+		}
+		if f := flow.RoundFaults(w); len(f) > 0 {
+			t.Fatalf("%s: %v", name, f)
+		}
+		solves++
+		if flow.WithinPasses(w) >= 2 {
+			several++ // a pass found lanes to cancel
+		}
+		if res != nil {
+			checkWarm(t, name, n, w, sol, *res)
+			return
+		}
+		if !w.WarmStarted {
+			t.Fatalf("%s: not warm started", name)
+		}
+		checkOptimal(t, n, w)
+		if w.Cost.Cmp(sol.Cost) != 0 {
+			t.Fatalf("%s: cost %s, cold %s", name, w.Cost.Format(0), sol.Cost.Format(0))
+		}
+	}
+	for i := range longrun.Cases(t, 300) {
+		n, name := mixedNetwork(rng, i, 5)
+		res, sol := oracleAndCold(t, name, n)
+		if sol.Status != flow.Optimal {
+			continue
+		}
+		if x, ok := randnet.FeasiblePlan(rng, n); ok {
+			check(name+", feasible plan", n, x, sol, &res)
+		}
+		y := netgen.Perturb(uint64(i), n, sol.Flow, sol.InTree, 10)
+		check(name+", perturbed optimum", n, y, sol, &res)
+	}
+	small := several
+	for k := range uint64(longrun.Cases(t, 4)) {
+		n := netgen.General(longrun.Seed(t, 70+k), 3000, 20000, 150, 150, 0.3, 100)
+		if k%2 == 1 {
+			n = withExcess(n, 60)
+		}
+		sol := solveOptimal(t, n)
+		for ps := uint64(1); ps <= 5; ps++ {
+			y := netgen.Perturb(ps, n, sol.Flow, sol.InTree, 10)
+			check(fmt.Sprintf("general network %d, perturbation %d", k, ps), n, y, sol, nil)
+		}
+	}
+	t.Logf("%d warm solves; %d made a pass that found lanes inside parts (%d on the random networks)", solves, several, small)
+	if small < 20 || several-small < 4 {
+		t.Errorf("passes that found lanes inside parts: %d on the random networks, %d on the general ones; the starts no longer exercise them", small, several-small)
 	}
 }
 

@@ -1,6 +1,7 @@
 package flow
 
 import (
+	"fmt"
 	"math"
 	"slices"
 )
@@ -201,15 +202,23 @@ func (s *simplex) warmStart(x []int64) (bool, []int32, bool, bool, error) {
 			cnt[t+1] += k
 		}
 	}
+	// withinDone is set by cancel when its passes inside parts ended
+	// with no lane left to cancel.
+	withinDone := false
 	// cancel pivots arcs into the current tree: first the free arcs of
 	// freeTry (left out of the forest) towards lower cost, then the arcs
-	// of try (at a bound) when eligible, most violating first. Only the
-	// arcs of touched (which must hold every tree arc not artificial and
-	// every arc of freeTry and try) can change flow; afterwards their
-	// states follow their flows (the tree is dropped), free keeps those
-	// strictly between their bounds, and the counts cnt follow the
-	// states.
-	cancel := func(freeTry, try []int32, touched []int32) (bool, error) {
+	// of try (at a bound) when eligible, most violating first. With inner
+	// (the tree is then the forest's parts hung from R, whose pivots keep
+	// each part's nodes; inner the arcs inside parts, see insideArcs), it
+	// then passes over inner for the arcs at a bound with the wrong sign
+	// from the new potentials, cancels them the same way, and passes
+	// again until there are none (withinDone) or after maxWithinPasses
+	// passes. Only the arcs of touched (which must hold every tree arc
+	// not artificial and every arc of freeTry and try) and those the
+	// passes find can change flow; afterwards their states follow their
+	// flows (the tree is dropped), free keeps those strictly between
+	// their bounds, and the counts cnt follow the states.
+	cancel := func(freeTry, try []int32, touched []int32, inner []int32) (bool, error) {
 		before := make([]int8, len(touched))
 		for i, a := range touched {
 			before[i] = boundState(a)
@@ -232,7 +241,9 @@ func (s *simplex) warmStart(x []int64) (bool, []int32, bool, bool, error) {
 				return unb, err
 			}
 		}
-		{
+		var seen []uint64 // the arcs of touched, once the passes add to them
+		withinDone = false
+		for pass := 0; ; pass++ {
 			// Most violating first (after a perturbation, the lane that
 			// left the cycle is among them, and its pivot restores it):
 			// a few rounds of picking the most violating arc still
@@ -268,6 +279,33 @@ func (s *simplex) warmStart(x []int64) (bool, []int32, bool, bool, error) {
 				r, _ := s.reducedChecked(a)
 				if unb, err := s.pivot(a, s.state[a], r); err != nil || unb {
 					return unb, err
+				}
+			}
+			if inner == nil || pass == maxWithinPasses {
+				break
+			}
+			// The pivots moved the potentials of the parts they went
+			// through, and lanes inside those parts may now have the
+			// wrong sign: cancel them too, pass after pass, until there
+			// are none (see maxWithinPasses). (A cycle inside a part
+			// does not pass through R.)
+			try = s.partViolations(inner)
+			s.withinPasses++
+			if len(try) == 0 {
+				withinDone = true
+				break
+			}
+			if seen == nil {
+				seen = make([]uint64, (s.artStart+63)/64)
+				for _, a := range touched {
+					seen[a>>6] |= 1 << (a & 63)
+				}
+			}
+			for _, a := range try {
+				if seen[a>>6]&(1<<(a&63)) == 0 {
+					seen[a>>6] |= 1 << (a & 63)
+					before = append(before, s.state[a])
+					touched = append(touched, a)
 				}
 			}
 		}
@@ -308,7 +346,7 @@ func (s *simplex) warmStart(x []int64) (bool, []int32, bool, bool, error) {
 				touched = append(touched, a)
 			}
 		}
-		return cancel(nil, try, touched)
+		return cancel(nil, try, touched, nil)
 	}
 	// setArtTree sets the tree to the forest with each part hung from R
 	// by the artificial arc of its smallest node: a strongly feasible
@@ -328,7 +366,7 @@ func (s *simplex) warmStart(x []int64) (bool, []int32, bool, bool, error) {
 			setArtTree()
 			touched := append([]int32(nil), free...)
 			freeTry := append([]int32(nil), superbasic...)
-			if unb, err := cancel(freeTry, nil, touched); err != nil || unb {
+			if unb, err := cancel(freeTry, nil, touched, nil); err != nil || unb {
 				return nil, nil, true, unb, err
 			}
 			makeForest()
@@ -395,18 +433,27 @@ func (s *simplex) warmStart(x []int64) (bool, []int32, bool, bool, error) {
 		// Cancelling changes the forest, and with it the lanes inside
 		// parts: more of them may now have the wrong sign. Many such
 		// lanes make the search refuse many more (the parts they join
-		// rise against each other), so after the first round they are
-		// cancelled first while they are many. The first round counts
-		// them in a pass of its own (there are usually hundreds); a
-		// later one while listing the lanes for the search, which it
-		// gives up at the minInsideViol-th (there are usually none).
-		var viol, inside []int32
+		// rise against each other), so they are cancelled first: the
+		// first round counts them in a pass of its own (there are
+		// usually hundreds), and its cancelling passes over the lanes
+		// again until none is left inside the parts it started from.
+		// The parts of the next round split those (its forest is the
+		// tree's lanes strictly between their bounds), with the same
+		// potentials up to a constant in each, so it finds none either.
+		// A later round that does not follow such passes (after a
+		// search, or when they stopped at maxWithinPasses) counts them
+		// while listing the lanes for the search, and gives the lists up
+		// at the minInsideViol-th.
+		var viol, inside, inner []int32
 		var pl partLists
 		listed := false
+		if s.checkRounds && round > 0 {
+			s.checkRound(cnt, comp, rho, withinDone)
+		}
 		switch {
 		case round >= insideRounds:
 		case round == 0 || len(superbasic) > 0:
-			viol = s.insideViolations(comp, rho)
+			viol, inner = s.insideArcs(comp, rho)
 		default:
 			if pl, inside = s.buildPartLists(cnt, comp, rho, minInsideViol); len(inside) >= minInsideViol {
 				viol, inside = inside, nil // the lists were given up
@@ -425,11 +472,15 @@ func (s *simplex) warmStart(x []int64) (bool, []int32, bool, bool, error) {
 			setArtTree()
 			touched := append(append([]int32(nil), free...), viol...)
 			freeTry := append([]int32(nil), superbasic...)
-			if unb, err := cancel(freeTry, viol, touched); err != nil || unb {
+			if inner == nil {
+				_, inner = s.insideArcs(comp, rho) // (none in checked arithmetic)
+			}
+			if unb, err := cancel(freeTry, viol, touched, inner); err != nil || unb {
 				return true, nil, false, unb, err
 			}
 			continue
 		}
+		withinDone = false
 		if !listed {
 			pl, inside = s.buildPartLists(cnt, comp, rho, 0)
 		}
@@ -463,11 +514,28 @@ const maxPicks = 32
 // lanes after the first round, the search refuses hundreds of lanes and
 // block search then needs thousands of pivots (netgen_a1e5, seed 11:
 // 148 lanes after the first round, 3,149 pivots; with the extra rounds
-// 163 pivots; see BENCHMARKS.md, fourth session).
+// 163 pivots; see BENCHMARKS.md, fourth session). Since the passes
+// inside parts (maxWithinPasses), a round after the first runs only after
+// a search or when those passes stopped at their bound.
 const (
 	maxInsideRounds = 8
 	minInsideViol   = 16
 )
+
+// maxWithinPasses bounds the passes over the lanes inside parts of one
+// cancelling in the rounds of a warm start (see cancel in warmStart). A
+// pass reads only those lanes (listed by the round's check: a few
+// thousand on the general networks of BENCHMARKS.md), where a round
+// after the first rebuilt the forest, listed all lanes and rebuilt the
+// tree and its potentials for two or three pivots; and the passes also
+// cancel the lanes between the parts the next forest splits a part into,
+// which the search would refuse. On the 180 repairs of the general
+// networks of BENCHMARKS.md (fifteenth session) a cancelling made 1-10
+// passes, the last one finding nothing. Repairs that used to run later
+// rounds took 0.46-0.65x the instructions (cachegrind), the others
+// about the same, and the worst repair of each network against LEMON
+// went from 0.20-0.28 to 0.13-0.20.
+const maxWithinPasses = 16
 
 // maxRounds bounds the rounds of a warm start, counted from the first and
 // including the rounds that cancel lanes inside parts, after which the
@@ -665,6 +733,79 @@ func (s *simplex) insideViolationsFrom(from int, comp []int32, rho []int64, viol
 		}
 	}
 	return viol
+}
+
+// insideArcs returns what insideViolations returns, and the lanes and
+// hold arcs whose ends lie in one part (comp), whatever their state: both
+// in index order, both empty in checked arithmetic. One pass over the
+// arcs; 4 bytes per arc inside parts.
+func (s *simplex) insideArcs(comp []int32, rho []int64) (viol, inner []int32) {
+	if s.checked {
+		return nil, nil
+	}
+	m := s.m
+	tail, head, rate, state := s.tail[:m], s.head[:m], s.rate[:m], s.state[:m]
+	for a := 0; a < m; a++ {
+		t, h := tail[a], head[a]
+		if comp[t] != comp[h] {
+			continue
+		}
+		inner = append(inner, int32(a))
+		if st := state[a]; st != stateTree && int64(st)*(rate[a]+rho[t]-rho[h]) < 0 {
+			viol = append(viol, int32(a))
+		}
+	}
+	for a := s.holdStart; a < s.artStart; a++ {
+		t, h := s.ends(int32(a))
+		if comp[t] != comp[h] {
+			continue
+		}
+		inner = append(inner, int32(a))
+		if st := s.state[a]; st != stateTree && int64(st)*(rho[t]-rho[h]) < 0 {
+			viol = append(viol, int32(a))
+		}
+	}
+	return viol, inner
+}
+
+// partViolations returns the arcs of inner at a bound whose reduced cost
+// from the current potentials has the wrong sign, in the order of inner.
+// O(len(inner)); only in unchecked arithmetic.
+func (s *simplex) partViolations(inner []int32) (viol []int32) {
+	m := int32(s.m)
+	cost, state, pot, tail, head := s.cost[:m], s.state, s.pot, s.tail[:m], s.head[:m]
+	for _, a := range inner {
+		st := state[a]
+		if st == stateTree {
+			continue
+		}
+		var r int64
+		if a < m {
+			r = cost[a] + pot[tail[a]] - pot[head[a]]
+		} else {
+			r = s.reduced(a)
+		}
+		if int64(st)*r < 0 {
+			viol = append(viol, a)
+		}
+	}
+	return viol
+}
+
+// checkRound records in s.faults what is wrong at the start of a round of
+// the warm start after the first (SolveOptions.checkRounds, for tests):
+// counts cnt that do not follow the states, and, when the cancelling
+// before it ended its passes inside parts with none left (done), a lane
+// inside a part of comp whose reduced cost from rho has the wrong sign.
+func (s *simplex) checkRound(cnt, comp []int32, rho []int64, done bool) {
+	want := make([]int32, len(cnt))
+	s.boundCounts(want)
+	if !slices.Equal(cnt, want) {
+		s.faults = append(s.faults, "counts of lanes at a bound do not follow their states")
+	}
+	if v := s.insideViolations(comp, rho); done && len(v) > 0 {
+		s.faults = append(s.faults, fmt.Sprintf("%d lanes inside parts with the wrong sign after passes that found none", len(v)))
+	}
 }
 
 // partMembers lists the nodes of each part (comp[v] is v's part, numbered
