@@ -53,6 +53,12 @@ func SolveCheckingRounds(n *Network, start []int64) (*Solution, error) {
 	return Solve(n, SolveOptions{Start: start, checkRounds: true})
 }
 
+// SolveCheckingRoundsPasses is SolveCheckingRounds with at most passes
+// passes inside parts per cancelling (maxWithinPasses otherwise).
+func SolveCheckingRoundsPasses(n *Network, start []int64, passes int) (*Solution, error) {
+	return Solve(n, SolveOptions{Start: start, checkRounds: true, withinPasses: passes})
+}
+
 // RoundFaults returns what SolveCheckingRounds found wrong.
 func RoundFaults(sol *Solution) []string { return sol.faults }
 

@@ -96,6 +96,9 @@ type SolveOptions struct {
 	// round of a warm start by lists after the first (tests: see
 	// checkRound; what is wrong goes to Solution.faults).
 	checkRounds bool
+	// withinPasses, when positive, replaces maxWithinPasses (tests: the
+	// rounds after passes that stopped at their bound).
+	withinPasses int
 }
 
 // Solution is the result of Solve.
@@ -274,6 +277,7 @@ type simplex struct {
 	swept       bool // the warm start searched by sweeps
 	piled       bool // the warm start searched again after a pile
 	checkRounds bool // SolveOptions.checkRounds
+	maxPasses   int  // maxWithinPasses, or SolveOptions.withinPasses
 
 	withinPasses int      // passes of the warm start inside parts
 	faults       []string // found by checkRound
@@ -524,7 +528,10 @@ func Solve(n *Network, opt SolveOptions) (*Solution, error) {
 	s.progress, s.placing = opt.Progress, opt.Placing
 	s.keep = opt.Keep
 	s.sweepAlways, s.noRounds, s.pileAlways, s.noCrash = opt.sweepAlways, opt.noRounds, opt.pileAlways, opt.noCrash
-	s.checkRounds = opt.checkRounds
+	s.checkRounds, s.maxPasses = opt.checkRounds, maxWithinPasses
+	if opt.withinPasses > 0 {
+		s.maxPasses = opt.withinPasses
+	}
 	sol := &Solution{}
 
 	warm, proved := false, false

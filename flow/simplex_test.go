@@ -1507,7 +1507,9 @@ func TestSolvePileRepair(t *testing.T) {
 // small random networks against gonum's LP simplex (internal/oracle)
 // and the cold solve, and on general networks of 3,000 nodes, with and
 // without excess supply, against the cold solve; every solve with a
-// certificate the independent checker accepts.
+// certificate the independent checker accepts. Each start is solved
+// again with one pass per cancelling, so that the rounds after passes
+// stopped at their bound (maxWithinPasses) run too.
 func TestSolveWithinParts(t *testing.T) {
 	rng := rand.New(rand.NewPCG(longrun.Seed(t, 20261203), 1))
 	solves, several := 0, 0
@@ -1523,6 +1525,21 @@ func TestSolveWithinParts(t *testing.T) {
 		solves++
 		if flow.WithinPasses(w) >= 2 {
 			several++ // a pass found lanes to cancel
+		}
+		one, err := flow.SolveCheckingRoundsPasses(n, y, 1)
+		if err != nil {
+			t.Fatalf("%s, one pass: %v", name, err)
+		}
+		if f := flow.RoundFaults(one); len(f) > 0 {
+			t.Fatalf("%s, one pass: %v", name, f)
+		}
+		if res != nil {
+			checkWarm(t, name+", one pass", n, one, sol, *res)
+		} else {
+			checkOptimal(t, n, one)
+			if one.Cost.Cmp(sol.Cost) != 0 {
+				t.Fatalf("%s, one pass: cost %s, cold %s", name, one.Cost.Format(0), sol.Cost.Format(0))
+			}
 		}
 		if res != nil {
 			checkWarm(t, name, n, w, sol, *res)

@@ -281,7 +281,7 @@ func (s *simplex) warmStart(x []int64) (bool, []int32, bool, bool, error) {
 					return unb, err
 				}
 			}
-			if inner == nil || pass == maxWithinPasses {
+			if inner == nil || pass == s.maxPasses {
 				break
 			}
 			// The pivots moved the potentials of the parts they went
