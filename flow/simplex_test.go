@@ -1031,6 +1031,25 @@ func checkWarm(t *testing.T, name string, n *flow.Network, w, sol *flow.Solution
 	}
 }
 
+// checkRepair checks a warm solve w of n against the cold solve sol and,
+// when res is set, gonum's LP simplex (as checkWarm); without res it
+// must have warm started, carry a certificate the independent checker
+// accepts and reach the cold cost.
+func checkRepair(t *testing.T, name string, n *flow.Network, w, sol *flow.Solution, res *oracle.Result) {
+	t.Helper()
+	if res != nil {
+		checkWarm(t, name, n, w, sol, *res)
+		return
+	}
+	if !w.WarmStarted {
+		t.Fatalf("%s: not warm started", name)
+	}
+	checkOptimal(t, n, w)
+	if w.Cost.Cmp(sol.Cost) != 0 {
+		t.Fatalf("%s: cost %s, cold %s", name, w.Cost.Format(0), sol.Cost.Format(0))
+	}
+}
+
 // shortfallOracle computes the documented Shortfall with the LP oracle: the
 // least total flow from a super node Z into the nodes with b' < 0, when
 // every node with b' >= 0 (and H under excess supply) may send any amount
@@ -1474,18 +1493,7 @@ func TestSolvePileRepair(t *testing.T) {
 				if flow.Piled(w) {
 					piled++
 				}
-				pname := fmt.Sprintf("%s, start %d", name, ps)
-				if res != nil {
-					checkWarm(t, pname, n, w, sol, *res)
-					continue
-				}
-				if !w.WarmStarted {
-					t.Fatalf("%s: not warm started", pname)
-				}
-				checkOptimal(t, n, w)
-				if w.Cost.Cmp(sol.Cost) != 0 {
-					t.Fatalf("%s: cost %s, cold %s", pname, w.Cost.Format(0), sol.Cost.Format(0))
-				}
+				checkRepair(t, fmt.Sprintf("%s, start %d", name, ps), n, w, sol, res)
 			}
 		}
 	}
@@ -1533,25 +1541,8 @@ func TestSolveWithinParts(t *testing.T) {
 		if f := flow.RoundFaults(one); len(f) > 0 {
 			t.Fatalf("%s, one pass: %v", name, f)
 		}
-		if res != nil {
-			checkWarm(t, name+", one pass", n, one, sol, *res)
-		} else {
-			checkOptimal(t, n, one)
-			if one.Cost.Cmp(sol.Cost) != 0 {
-				t.Fatalf("%s, one pass: cost %s, cold %s", name, one.Cost.Format(0), sol.Cost.Format(0))
-			}
-		}
-		if res != nil {
-			checkWarm(t, name, n, w, sol, *res)
-			return
-		}
-		if !w.WarmStarted {
-			t.Fatalf("%s: not warm started", name)
-		}
-		checkOptimal(t, n, w)
-		if w.Cost.Cmp(sol.Cost) != 0 {
-			t.Fatalf("%s: cost %s, cold %s", name, w.Cost.Format(0), sol.Cost.Format(0))
-		}
+		checkRepair(t, name, n, w, sol, res)
+		checkRepair(t, name+", one pass", n, one, sol, res)
 	}
 	for i := range longrun.Cases(t, 300) {
 		n, name := mixedNetwork(rng, i, 5)
