@@ -56,7 +56,7 @@ func SolveCheckingRounds(n *Network, start []int64) (*Solution, error) {
 // SolveCheckingRoundsPasses is SolveCheckingRounds with at most passes
 // passes inside parts per cancelling (maxWithinPasses otherwise).
 func SolveCheckingRoundsPasses(n *Network, start []int64, passes int) (*Solution, error) {
-	return Solve(n, SolveOptions{Start: start, checkRounds: true, withinPasses: passes})
+	return Solve(n, SolveOptions{Start: start, checkRounds: true, maxPasses: passes})
 }
 
 // RoundFaults returns what SolveCheckingRounds found wrong.

@@ -96,9 +96,9 @@ type SolveOptions struct {
 	// round of a warm start by lists after the first (tests: see
 	// checkRound; what is wrong goes to Solution.faults).
 	checkRounds bool
-	// withinPasses, when positive, replaces maxWithinPasses (tests: the
+	// maxPasses, when positive, replaces maxWithinPasses (tests: the
 	// rounds after passes that stopped at their bound).
-	withinPasses int
+	maxPasses int
 }
 
 // Solution is the result of Solve.
@@ -277,7 +277,7 @@ type simplex struct {
 	swept       bool // the warm start searched by sweeps
 	piled       bool // the warm start searched again after a pile
 	checkRounds bool // SolveOptions.checkRounds
-	maxPasses   int  // maxWithinPasses, or SolveOptions.withinPasses
+	maxPasses   int  // maxWithinPasses, or SolveOptions.maxPasses
 
 	withinPasses int      // passes of the warm start inside parts
 	faults       []string // found by checkRound
@@ -420,15 +420,13 @@ func (s *simplex) costOf(a int32) int64 {
 // the wrong sign, and pivot them in the same way, until a pass finds
 // none (at most maxWithinPasses). The forest of the new plan then splits
 // the parts, with the same potentials up to a constant in each, and has
-// no such lane. (Should free lanes
-// still close cycles, or a later round find at least minInsideViol lanes
-// with the wrong sign, they are cancelled again, up to maxInsideRounds
-// rounds; free lanes left then are pivoted in after the search.) A pass
-// then lists the
-// lanes at a bound between parts under the part their spare direction
-// leads to (zero flow: the head's; full: the tail's), each with the part
-// at its other end and the offset between the two parts that gives it
-// reduced cost 0. The parts are joined into a strongly feasible tree by a
+// no such lane. (Should free lanes still close cycles, or a later round
+// find at least minInsideViol lanes with the wrong sign, they are
+// cancelled again, up to maxInsideRounds rounds; free lanes left then are
+// pivoted in after the search.) A pass then lists the lanes at a bound
+// between parts under the part their spare direction leads to (zero
+// flow: the head's; full: the tail's), each with the part at its other
+// end and the offset between the two parts that gives it reduced cost 0. The parts are joined into a strongly feasible tree by a
 // label-correcting shortest-path search over those lists (first-in
 // first-out, with subtree disassembly) that gives every part the highest
 // potentials its lanes at a bound allow, hanging it below a neighbour
@@ -443,8 +441,8 @@ func (s *simplex) costOf(a int32) int64 {
 // when the first search refused a pile of lanes on its root part, see
 // pileRefusals); then block search finishes. A plan that is optimal
 // except for a few cycles thus needs four or five passes over the lanes
-// and a few over the lanes inside parts,
-// one or two searches over the lanes at a bound, a few pivots per cycle
+// and a few over the lanes inside parts, one or two searches over the
+// lanes at a bound, a few pivots per cycle
 // and the final pricing (skipped when the last search, refusing nothing,
 // reached every part: its tree is then optimal).
 //
@@ -529,8 +527,8 @@ func Solve(n *Network, opt SolveOptions) (*Solution, error) {
 	s.keep = opt.Keep
 	s.sweepAlways, s.noRounds, s.pileAlways, s.noCrash = opt.sweepAlways, opt.noRounds, opt.pileAlways, opt.noCrash
 	s.checkRounds, s.maxPasses = opt.checkRounds, maxWithinPasses
-	if opt.withinPasses > 0 {
-		s.maxPasses = opt.withinPasses
+	if opt.maxPasses > 0 {
+		s.maxPasses = opt.maxPasses
 	}
 	sol := &Solution{}
 

@@ -654,7 +654,7 @@ type partLists struct {
 // the wrong sign are returned in viol (none in checked arithmetic, where
 // rho is all zero). When giveUp > 0 and viol reaches that many arcs, the
 // listing stops there (pl is then incomplete, not to be used) and the rest
-// of the pass only collects viol, as insideViolations does. One pass over
+// of the pass only collects viol (insideViolationsFrom). One pass over
 // the arcs; 16 bytes per listed arc.
 func (s *simplex) buildPartLists(cnt, comp []int32, rho []int64, giveUp int) (pl partLists, viol []int32) {
 	nn, m := s.nNodes, s.m
@@ -706,19 +706,11 @@ func (s *simplex) buildPartLists(cnt, comp []int32, rho []int64, giveUp int) (pl
 	return partLists{list, pstart, pend}, viol
 }
 
-// insideViolations returns the lanes and hold arcs at a bound inside a
-// part (comp) whose reduced cost from the parts' potentials rho has the
-// wrong sign: each closes a cycle of negative cost with the forest. One
-// pass over the arcs (empty in checked arithmetic, as in buildPartLists).
-func (s *simplex) insideViolations(comp []int32, rho []int64) (viol []int32) {
-	if s.checked {
-		return nil
-	}
-	return s.insideViolationsFrom(0, comp, rho, nil)
-}
-
-// insideViolationsFrom appends to viol the arcs insideViolations returns,
-// from lane from on (then the hold arcs).
+// insideViolationsFrom appends to viol the lanes from lane from on, then
+// the hold arcs, that are at a bound inside a part (comp) and whose
+// reduced cost from the parts' potentials rho has the wrong sign: each
+// closes a cycle of negative cost with the forest (none in checked
+// arithmetic, where rho is all zero: the callers skip it then).
 func (s *simplex) insideViolationsFrom(from int, comp []int32, rho []int64, viol []int32) []int32 {
 	m := s.m
 	tail, head, rate, state := s.tail[:m], s.head[:m], s.rate[:m], s.state[:m]
@@ -735,10 +727,12 @@ func (s *simplex) insideViolationsFrom(from int, comp []int32, rho []int64, viol
 	return viol
 }
 
-// insideArcs returns what insideViolations returns, and the lanes and
-// hold arcs whose ends lie in one part (comp), whatever their state: both
-// in index order, both empty in checked arithmetic. One pass over the
-// arcs; 4 bytes per arc inside parts.
+// insideArcs returns the lanes and hold arcs at a bound inside a part
+// (comp) whose reduced cost from the parts' potentials rho has the wrong
+// sign (as insideViolationsFrom), and all lanes and hold arcs whose ends
+// lie in one part, whatever their state: both in index order, both empty
+// in checked arithmetic. One pass over the arcs; 4 bytes per arc inside
+// parts.
 func (s *simplex) insideArcs(comp []int32, rho []int64) (viol, inner []int32) {
 	if s.checked {
 		return nil, nil
@@ -803,7 +797,7 @@ func (s *simplex) checkRound(cnt, comp []int32, rho []int64, done bool) {
 	if !slices.Equal(cnt, want) {
 		s.faults = append(s.faults, "counts of lanes at a bound do not follow their states")
 	}
-	if v := s.insideViolations(comp, rho); done && len(v) > 0 {
+	if v, _ := s.insideArcs(comp, rho); done && len(v) > 0 {
 		s.faults = append(s.faults, fmt.Sprintf("%d lanes inside parts with the wrong sign after passes that found none", len(v)))
 	}
 }
