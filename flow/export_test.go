@@ -65,3 +65,7 @@ func RoundFaults(sol *Solution) []string { return sol.faults }
 // WithinPasses returns the passes over the lanes that the warm start's
 // cancelling made inside parts (see maxWithinPasses).
 func WithinPasses(sol *Solution) int { return sol.within }
+
+// SiftKeptPricings returns how many pricings of Solve's sifting warm start
+// read only the lanes kept by an earlier one (see siftKeep).
+func SiftKeptPricings(sol *Solution) int { return sol.siftKept }

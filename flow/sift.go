@@ -13,10 +13,12 @@ import (
 // (Basis.Add: a few pivots from it), until one pricing finds none (the
 // tree is then optimal, and no further pass is needed) or after
 // siftRounds rounds (block search then finishes on the whole network from
-// the last tree). A plan that is optimal except for a few cycles moves
-// only on lanes near its own, so the restricted network stays small (a
-// few lanes per node): the cost is one pass over the lanes that also
-// checks the plan, plus one pricing pass per round (two on the dense
+// the last tree). A pricing after the first reads only the lanes that an
+// earlier one kept, those with a small reduced cost, while the potentials
+// have moved little since (siftKeep). A plan that is optimal except for a
+// few cycles moves only on lanes near its own, so the restricted network
+// stays small (a few lanes per node): the cost is one pass over the lanes
+// that also checks the plan, plus one pricing pass (on the dense
 // transportation instances of BENCHMARKS.md), against several passes for
 // a search over lists of all the lanes at a bound.
 const (
@@ -73,10 +75,9 @@ func (s *simplex) sift(x []int64) (ok, proved bool, err error) {
 	if needChecks(int64(s.nNodes), int64(maxRate)) {
 		return false, false, nil
 	}
-	inC := make([]uint64, (m+63)/64)
-	mark := func(a int32) { inC[a>>6] |= 1 << (a & 63) }
+	inC := make([]uint64, (m+63)/64) // the lanes the plan uses
 	for _, a := range lanes {
-		mark(a)
+		inC[a>>6] |= 1 << (a & 63)
 	}
 	// Each node's two cheapest lanes (at zero flow: none is in use), in
 	// index order without repeats, read from a bitmap in order.
@@ -89,10 +90,16 @@ func (s *simplex) sift(x []int64) (ok, proved bool, err error) {
 		}
 	}
 	for w, word := range cheap {
-		inC[w] |= word
+		word &^= inC[w]
 		for ; word != 0; word &= word - 1 {
 			lanes = append(lanes, int32(w<<6+bits.TrailingZeros64(word)))
 		}
+	}
+	// Until sift returns, the lanes of the restricted network are marked
+	// stateTree, so that the pricings pass them over, and every other
+	// lane is at zero flow: stateLower, or stateTree when fixed.
+	for _, a := range lanes {
+		state[a] = stateTree
 	}
 
 	// Round 0: solve the restricted network from the plan.
@@ -116,6 +123,8 @@ func (s *simplex) sift(x []int64) (ok, proved bool, err error) {
 	var extra []Candidate // lanes added to the kept basis: arcs t.na.. of Add's state
 	pivots, cost := sol.Pivots, sol.Cost
 	var viol []int32
+	var keep siftKeep
+	tau := max(int64(maxRate)/siftTauDiv, 1)
 	for round := 1; ; round++ {
 		// The restricted optimum (state t: its lanes, then its
 		// artificial arcs, then the extras) as the whole network's tree.
@@ -129,34 +138,36 @@ func (s *simplex) sift(x []int64) (ok, proved bool, err error) {
 			}
 			return int32(s.artStart) + p - int32(t.artStart) // artificial
 		}
-		for j, a := range lanes[:nc] {
-			flow[a], state[a] = t.flow[j], t.state[j]
-		}
-		for i, a := range lanes[nc:] {
-			if na+i < len(t.flow) {
-				flow[a], state[a] = t.flow[na+i], t.state[na+i]
-			} else {
-				flow[a], state[a] = 0, stateLower // (Add kept the basis)
-			}
-		}
 		s.copyTree(t, arc)
 		s.obj, s.objOK = cost, true
 		s.pivots = pivots
 
-		// Price every lane (those of the restricted network have the
-		// right sign already).
-		viol = siftPrice(state, rate, tail, head, s.pot, viol[:0])
-		if len(viol) == 0 {
-			return true, true, nil
+		// Price every lane outside the restricted network (whose lanes
+		// have the right sign already), or only those kept by the last
+		// pricing of every lane when the potentials have moved little
+		// since.
+		var partial bool
+		viol, partial = keep.price(state, rate, tail, head, s.pot[:nv], tau, viol[:0])
+		if partial {
+			s.siftKept++
 		}
-		if round == siftRounds || len(lanes)+len(viol) > m/4 {
-			return true, false, nil
+		if done := len(viol) == 0; done || round == siftRounds || len(lanes)+len(viol) > m/4 {
+			// The restricted network's lanes take their flows and
+			// states from t.
+			for j, a := range lanes[:nc] {
+				flow[a], state[a] = t.flow[j], t.state[j]
+			}
+			for i, a := range lanes[nc:] {
+				if na+i < len(t.flow) {
+					flow[a], state[a] = t.flow[na+i], t.state[na+i]
+				} else {
+					flow[a], state[a] = 0, stateLower // (Add kept the basis)
+				}
+			}
+			return true, done, nil
 		}
 		for _, a := range viol {
-			if inC[a>>6]&(1<<(a&63)) != 0 {
-				return true, false, nil // (cannot happen: block search finishes)
-			}
-			mark(a)
+			state[a] = stateTree // (see lanes)
 			lanes = append(lanes, a)
 			extra = append(extra, Candidate{Tail: tail[a], Head: head[a], Rate: rate[a], Upper: upper[a]})
 		}
@@ -244,17 +255,127 @@ func (b *cheapTwo) offer(r int64, a int32) {
 	}
 }
 
-// siftPrice appends to viol the lanes not in the tree whose reduced cost
-// (potentials pot) has the wrong sign for their state. One pass.
-func siftPrice(state []int8, rate []int64, tail, head []NodeID, pot []int64, viol []int32) []int32 {
+// siftTauDiv sets the band of reduced costs whose lanes a pricing of
+// sift keeps: [0, maxRate/siftTauDiv). On the dense transportation
+// network of BENCHMARKS.md (trans_a1e5) the potentials of the second and
+// third pricings moved by 46-75 and 1-7 (rates up to 965), so that a
+// band of 120 (about a fifth of the lanes) lets both read only the kept
+// lanes.
+const siftTauDiv = 8
+
+// siftKeep holds the lanes that the last pricing of every lane (under the
+// potentials ref) found with a reduced cost in [0, tau): each as a
+// sweepArc and its index. Every other lane priced then had at least tau,
+// or the wrong sign. A change of potentials moves a lane's reduced cost by
+// at most the spread of the change (its largest minus its smallest value
+// over the nodes), so while that spread stays at most tau, only the kept
+// lanes can have turned wrong.
+type siftKeep struct {
+	kept []sweepArc // room for |E|/4 + 1
+	id   []int32
+	ref  []int64
+	tau  int64
+	ok   bool // the lanes kept are all those of the band
+}
+
+// price appends to viol, in index order, the lanes at their lower bound
+// (state stateLower: sift passes over the others) whose reduced cost
+// under pot (one potential per node) is negative. When the potentials
+// have moved by a spread of at most the band's since the last pricing of
+// every lane, it reads only the kept lanes (and reports partial);
+// otherwise it prices every lane and keeps those with a reduced cost in
+// [0, tau), unless there are more than |E|/4 + 1. Unchecked arithmetic:
+// potentials and rates must leave (2|V|+3)·max(maxRate, 1) representable
+// (needChecks), and tau be at most max(maxRate, 1). Time O(|V|) plus O(|E|)
+// for a pricing of every lane or O(kept) otherwise; memory 20 bytes per
+// lane kept.
+func (k *siftKeep) price(state []int8, rate []int64, tail, head []NodeID, pot []int64, tau int64, viol []int32) (_ []int32, partial bool) {
+	if k.ok && k.within(pot) {
+		for i := 0; i < len(k.kept); i++ {
+			if i = sweepKept(k.kept, pot, i); i == len(k.kept) {
+				break
+			}
+			// (A lane that joined the restricted network since is
+			// marked stateTree.)
+			if a := k.id[i]; state[a] == stateLower {
+				viol = append(viol, a)
+			}
+		}
+		return viol, true
+	}
+	m := len(state)
+	if k.kept == nil {
+		k.kept = make([]sweepArc, m/4+1)
+		k.id = make([]int32, m/4+1)
+	}
+	k.ref = append(k.ref[:0], pot...)
+	k.tau = tau
+	var n, end int
+	viol, n, end = siftPriceKeep(state, rate, tail, head, pot, tau, viol, k.kept[:cap(k.kept)], k.id[:cap(k.id)])
+	k.kept, k.id, k.ok = k.kept[:n], k.id[:n], end == m
+	if end < m {
+		viol = siftPrice(state, rate, tail, head, pot, end, viol)
+	}
+	return viol, false
+}
+
+// siftPriceKeep prices lanes as siftPrice does from lane 0, and writes
+// into kept and id (of equal length), in index order, the lanes with a
+// reduced cost in [0, tau). It stops when they are full, and returns
+// viol, the count kept and the index of the first lane it did not price
+// (len(state) when it priced every lane). Each lane is written into the
+// next free place, which only a lane in the band keeps, so that the loop
+// does not branch on the band.
+func siftPriceKeep(state []int8, rate []int64, tail, head []NodeID, pot []int64, tau int64, viol []int32, kept []sweepArc, id []int32) ([]int32, int, int) {
 	m := len(state)
 	rate, tail, head = rate[:m], tail[:m], head[:m]
+	id = id[:len(kept)]
+	n := 0
 	for a, st := range state {
-		if st != stateTree && int64(st)*(rate[a]+pot[tail[a]]-pot[head[a]]) < 0 {
+		if st != stateLower {
+			continue
+		}
+		t, h, r := tail[a], head[a], rate[a]
+		rc := r + pot[t] - pot[h]
+		if rc < 0 {
+			viol = append(viol, int32(a))
+			continue
+		}
+		kept[n], id[n] = sweepArc{t, h, r}, int32(a)
+		if rc < tau {
+			n++
+		}
+		if n == len(kept) {
+			return viol, n, a + 1
+		}
+	}
+	return viol, n, m
+}
+
+// siftPrice appends to viol, in index order, the lanes from lo on at their
+// lower bound (state stateLower) whose reduced cost under pot is
+// negative.
+func siftPrice(state []int8, rate []int64, tail, head []NodeID, pot []int64, lo int, viol []int32) []int32 {
+	m := len(state)
+	rate, tail, head = rate[:m], tail[:m], head[:m]
+	for a := lo; a < m; a++ {
+		if state[a] == stateLower && rate[a]+pot[tail[a]]-pot[head[a]] < 0 {
 			viol = append(viol, int32(a))
 		}
 	}
 	return viol
+}
+
+// within reports whether the potentials pot have moved from ref by a
+// spread of at most tau. (The changes lie within twice the bound on
+// potentials, so lo + tau cannot overflow.) O(|V|).
+func (k *siftKeep) within(pot []int64) bool {
+	lo, hi := int64(math.MaxInt64), int64(math.MinInt64)
+	for v, p := range pot {
+		d := p - k.ref[v]
+		lo, hi = min(lo, d), max(hi, d)
+	}
+	return hi <= lo+k.tau
 }
 
 // copyTree makes the tree of t, a solver over the same nodes (a restricted

@@ -2,6 +2,7 @@ package flow
 
 import (
 	"math"
+	"math/rand/v2"
 	"slices"
 	"testing"
 )
@@ -77,5 +78,99 @@ func TestSiftScanChecks(t *testing.T) {
 		if _, _, _, _, ok := scan(l); ok {
 			t.Errorf("%s: accepted", f.name)
 		}
+	}
+}
+
+// TestSiftKeepPrice checks siftKeep.price against what it answers for,
+// from a plain pass over the lanes: every lane at stateLower whose reduced
+// cost r + p(t) - p(h) is negative, in index order. Each of 400 random
+// sets of lanes and potentials is priced 8 times in a row; between
+// pricings the potentials move by a spread drawn around the band tau
+// (below it, at it, just past it, far past it: one node moves by the whole
+// spread, one not at all) and lanes join the restricted network (marked
+// stateTree) as sift marks them: the wrong ones and a few others. The
+// pricings that read only the kept lanes, those of every lane, and those
+// whose band held more than |E|/4 lanes (then none is kept) must all
+// occur.
+func TestSiftKeepPrice(t *testing.T) {
+	rng := rand.New(rand.NewPCG(20261203, 1))
+	plain := func(state []int8, rate []int64, tail, head []NodeID, pot []int64) []int32 {
+		var v []int32
+		for a := range state {
+			if state[a] == stateLower && rate[a]+pot[tail[a]]-pot[head[a]] < 0 {
+				v = append(v, int32(a))
+			}
+		}
+		return v
+	}
+	partials, fulls, overfull := 0, 0, 0
+	for trial := range 400 {
+		nv := 2 + rng.IntN(12)
+		m := 1 + rng.IntN(300)
+		maxRate := 1 + rng.Int64N(60)
+		tail, head := make([]NodeID, m), make([]NodeID, m)
+		rate, state := make([]int64, m), make([]int8, m)
+		for a := range m {
+			tail[a], head[a] = NodeID(rng.IntN(nv)), NodeID(rng.IntN(nv))
+			rate[a] = rng.Int64N(2*maxRate+1) - maxRate
+			state[a] = stateLower
+			if rng.IntN(5) == 0 {
+				state[a] = stateTree
+			}
+		}
+		pot := make([]int64, nv)
+		for v := range pot {
+			pot[v] = rng.Int64N(2*maxRate+1) - maxRate
+		}
+		tau := 1 + rng.Int64N(maxRate)
+		var k siftKeep
+		for step := range 8 {
+			got, partial := k.price(state, rate, tail, head, pot, tau, nil)
+			if want := plain(state, rate, tail, head, pot); !slices.Equal(got, want) {
+				t.Fatalf("trial %d, pricing %d (kept only: %v): %v, want %v", trial, step, partial, got, want)
+			}
+			switch {
+			case partial:
+				partials++
+			case k.ok:
+				fulls++
+			default:
+				overfull++
+			}
+			var spread int64
+			switch rng.IntN(4) {
+			case 0:
+				spread = rng.Int64N(tau)
+			case 1:
+				spread = tau
+			case 2:
+				spread = tau + 1
+			default:
+				spread = tau + 1 + rng.Int64N(3*maxRate)
+			}
+			lo, hi := rng.IntN(nv), rng.IntN(nv-1)
+			if hi >= lo {
+				hi++
+			}
+			for v := range pot {
+				switch v {
+				case lo:
+				case hi:
+					pot[v] += spread
+				default:
+					pot[v] += rng.Int64N(spread + 1)
+				}
+			}
+			for _, a := range got {
+				state[a] = stateTree
+			}
+			for range rng.IntN(3) {
+				state[rng.IntN(m)] = stateTree
+			}
+		}
+	}
+	t.Logf("pricings: %d of kept lanes only, %d of every lane keeping the band, %d with too many in it", partials, fulls, overfull)
+	if partials < 500 || fulls < 500 || overfull < 50 {
+		t.Errorf("pricings: %d of kept lanes only, %d of every lane keeping the band, %d with too many in it; want each path taken", partials, fulls, overfull)
 	}
 }

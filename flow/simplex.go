@@ -147,13 +147,14 @@ type Solution struct {
 	// demand (SolvePricedShortfall).
 	Attempt []int64
 
-	sim     *simplex // with SolveOptions.keepSim
-	sifted  bool     // the warm start sifted (tests)
-	swept   bool     // the warm start searched by sweeps (tests)
-	piled   bool     // the warm start searched again after a pile (tests)
-	crashed int64    // pivots made by crash (tests)
-	within  int      // passes of the warm start inside parts (tests)
-	faults  []string // with SolveOptions.checkRounds (tests)
+	sim      *simplex // with SolveOptions.keepSim
+	sifted   bool     // the warm start sifted (tests)
+	siftKept int      // pricings of sifting that read only kept lanes (tests)
+	swept    bool     // the warm start searched by sweeps (tests)
+	piled    bool     // the warm start searched again after a pile (tests)
+	crashed  int64    // pivots made by crash (tests)
+	within   int      // passes of the warm start inside parts (tests)
+	faults   []string // with SolveOptions.checkRounds (tests)
 }
 
 // Arc states. An arc that is not in the tree is at its lower bound
@@ -281,6 +282,7 @@ type simplex struct {
 
 	withinPasses int      // passes of the warm start inside parts
 	faults       []string // found by checkRound
+	siftKept     int      // pricings of sift that read only kept lanes
 }
 
 // treeArc is the flow and capacity (inf: none) of a node's tree arc,
@@ -538,7 +540,7 @@ func Solve(n *Network, opt SolveOptions) (*Solution, error) {
 		if warm, proved, err = s.sift(opt.Start); err != nil {
 			return nil, err
 		}
-		sol.sifted = warm
+		sol.sifted, sol.siftKept = warm, s.siftKept
 	}
 	if tryWarm && supply >= demand && !warm {
 		var unb bool

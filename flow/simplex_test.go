@@ -1766,3 +1766,42 @@ func TestWarmFreeLaneInTree(t *testing.T) {
 		t.Fatalf("warm cost %s, cold %s, oracle %g", warm.Cost.Format(0), cold.Cost.Format(0), res.CostScaled)
 	}
 }
+
+// TestSolveSiftKept repairs by sifting plans moved around 10 cycles
+// (netgen.Perturb) from the optimum of complete transportation networks,
+// half of them with capacities (capToMin), so that the pricings after the
+// first read only the lanes it kept (siftKeep) while the potentials move
+// little: each repair must sift, reach the cold optimum and pass the
+// independent checker, and at least half the repairs must have had such a
+// pricing.
+func TestSolveSiftKept(t *testing.T) {
+	kept, repairs := 0, 0
+	for seed := uint64(1); seed <= 12; seed++ {
+		n := netgen.Transport(seed, 30+int(seed), 40, 0, 1000)
+		if seed%2 == 0 {
+			n = capToMin(n)
+		}
+		sol := solveOptimal(t, n)
+		for p := uint64(1); p <= 5; p++ {
+			name := fmt.Sprintf("network %d, perturbation %d", seed, p)
+			y := netgen.Perturb(p, n, sol.Flow, sol.InTree, 10)
+			w, err := flow.SolveSifting(n, y)
+			if err != nil {
+				t.Fatalf("%s: %v", name, err)
+			}
+			if !flow.Sifted(w) {
+				t.Fatalf("%s: did not sift", name)
+			}
+			checkRepair(t, name, n, w, sol, nil)
+			repairs++
+			if k := flow.SiftKeptPricings(w); k > 0 {
+				kept++
+			}
+			t.Logf("%s: %d pricings of kept lanes", name, flow.SiftKeptPricings(w))
+		}
+	}
+	t.Logf("%d of %d repairs priced kept lanes only at least once", kept, repairs)
+	if kept < repairs/2 {
+		t.Errorf("only %d of %d repairs priced kept lanes only", kept, repairs)
+	}
+}
