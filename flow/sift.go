@@ -45,8 +45,10 @@ func (s *simplex) siftable() bool {
 // reports that the last pricing found every lane with the right sign of
 // reduced cost (the tree is optimal).
 //
-// Time O(|V|+|E|) per round plus the restricted solves; memory O(|V|) plus
-// 1 bit per lane and the restricted network.
+// Time O(|V|+|E|) for the first pass and for each pricing of every lane,
+// O(|V|) plus the kept lanes for the other pricings, plus the restricted
+// solves; memory O(|V|) plus 2 bits per lane, the kept lanes (at most 5
+// bytes per lane) and the restricted network.
 func (s *simplex) sift(x []int64) (ok, proved bool, err error) {
 	n := s.net
 	m, nv := s.m, len(n.Nodes)
