@@ -13,6 +13,7 @@ import (
 
 	"lanecert/flow"
 	"lanecert/internal/netgen"
+	"lanecert/internal/stats"
 )
 
 // benchCase is a generated network, built once, with its optimal solution
@@ -150,18 +151,8 @@ func (m *medianClock) report(b *testing.B) {
 	if len(m.ns) == 0 {
 		return
 	}
-	b.ReportMetric(medianOf(m.ns), "med-ns/op")
-}
-
-// medianOf returns the median of xs (the mean of the middle two for an
-// even length), sorting xs.
-func medianOf(xs []float64) float64 {
-	slices.Sort(xs)
-	n := len(xs)
-	if n%2 == 1 {
-		return xs[n/2]
-	}
-	return (xs[n/2-1] + xs[n/2]) / 2
+	slices.Sort(m.ns)
+	b.ReportMetric(stats.Median(m.ns), "med-ns/op")
 }
 
 // BenchmarkSolveFiles solves every .min file in $LANECERT_BENCH_DIR (for
@@ -192,23 +183,6 @@ func BenchmarkSolveFiles(b *testing.B) {
 			return n
 		}}
 		benchSolve(b, []*benchCase{c})
-	}
-}
-
-// TestMedianOf checks the median of the benchmark loops (definition
-// above; common practice for an even count).
-func TestMedianOf(t *testing.T) {
-	for _, c := range []struct {
-		in   []float64
-		want float64
-	}{
-		{[]float64{7}, 7},
-		{[]float64{9, 1, 5}, 5},
-		{[]float64{40, 10, 20, 1000}, 30},
-	} {
-		if got := medianOf(append([]float64(nil), c.in...)); got != c.want {
-			t.Errorf("medianOf(%v) = %v, want %v", c.in, got, c.want)
-		}
 	}
 }
 

@@ -45,6 +45,8 @@ import (
 	"slices"
 	"strconv"
 	"strings"
+
+	"lanecert/internal/stats"
 )
 
 func main() {
@@ -240,19 +242,6 @@ func repairKeys(t map[string]timing) []string {
 	return keys
 }
 
-// median of a sorted slice (the mean of the middle two for an even
-// length).
-func median(sorted []float64) float64 {
-	n := len(sorted)
-	if n == 0 {
-		return math.NaN()
-	}
-	if n%2 == 1 {
-		return sorted[n/2]
-	}
-	return (sorted[n/2-1] + sorted[n/2]) / 2
-}
-
 func writeTables(w io.Writer, all []result, bins []string) {
 	fmt.Fprintln(w, "| file | binary | reference ms | cold ms | cold / ref | repairs / ref, sorted | median | worst |")
 	fmt.Fprintln(w, "|---|---|---:|---:|---:|---|---:|---:|")
@@ -274,7 +263,7 @@ func writeTables(w io.Writer, all []result, bins []string) {
 				worst = ratios[len(ratios)-1]
 			}
 			fmt.Fprintf(w, "| %s | %s | %.1f | %.1f | %.2f | %s | %.2f | %.2f |\n", r.name, filepath.Base(b),
-				r.refSec*1e3, t["cold"].ns/1e6, t["cold"].ns/refNs, strings.Join(cells, " "), median(ratios), worst)
+				r.refSec*1e3, t["cold"].ns/1e6, t["cold"].ns/refNs, strings.Join(cells, " "), stats.Median(ratios), worst)
 		}
 	}
 	if len(bins) < 2 {

@@ -2,7 +2,6 @@ package main
 
 import (
 	"bytes"
-	"math"
 	"os"
 	"path/filepath"
 	"reflect"
@@ -64,24 +63,6 @@ func TestParseReference(t *testing.T) {
 		if _, err := parseReference([]byte(bad), "x.min"); err == nil {
 			t.Fatalf("no error for %q", bad)
 		}
-	}
-}
-
-func TestMedian(t *testing.T) {
-	for _, c := range []struct {
-		in   []float64
-		want float64
-	}{
-		{[]float64{1}, 1},
-		{[]float64{1, 2, 10}, 2},
-		{[]float64{1, 2, 3, 10}, 2.5},
-	} {
-		if got := median(c.in); got != c.want {
-			t.Fatalf("median(%v) = %v, want %v", c.in, got, c.want)
-		}
-	}
-	if !math.IsNaN(median(nil)) {
-		t.Fatal("median of nothing is not NaN")
 	}
 }
 
