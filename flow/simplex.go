@@ -457,11 +457,15 @@ func (s *simplex) costOf(a int32) int64 {
 // to the restricted optimum's basis (Basis.Add) and the pricing is
 // repeated until it finds none, which proves the tree optimal without a
 // final pricing (block search takes over after six pricings, or when the
-// restricted network would pass a quarter of the lanes). A plan that is
-// optimal except for a few cycles costs one pass that checks it, two or
-// three pricing passes and a few pivots on a network of a few lanes per
-// node. On sparse networks the restricted optimum's potentials are far
-// from the whole network's, and the search above serves better.
+// restricted network would pass a quarter of the lanes). A pricing after
+// the first reads only the lanes an earlier one found with a small reduced
+// cost, as long as the potentials have moved by less than that margin
+// since (no other lane can have turned wrong). A plan that is optimal
+// except for a few cycles costs one pass that checks it, one pricing pass
+// over every lane, two or three over the kept ones, and a few pivots on a
+// network of a few lanes per node. On sparse networks the restricted
+// optimum's potentials are far from the whole network's, and the search
+// above serves better.
 //
 // On a large dense network (at least 786,432 lanes and 64 per node, see
 // sweepMinLanes) that does not sift the warm start lists nothing: the same
