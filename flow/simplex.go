@@ -459,7 +459,7 @@ func (s *simplex) costOf(a int32) int64 {
 // final pricing (block search takes over after six pricings, or when the
 // restricted network would pass a quarter of the lanes). A pricing after
 // the first reads only the lanes an earlier one found with a small reduced
-// cost, as long as the potentials have moved by less than that margin
+// cost, as long as the potentials have moved by at most that margin
 // since (no other lane can have turned wrong). A plan that is optimal
 // except for a few cycles costs one pass that checks it, one pricing pass
 // over every lane, two or three over the kept ones, and a few pivots on a
