@@ -428,7 +428,8 @@ func (s *simplex) costOf(a int32) int64 {
 // pivoted in after the search.) A pass then lists the lanes at a bound
 // between parts under the part their spare direction leads to (zero
 // flow: the head's; full: the tail's), each with the part at its other
-// end and the offset between the two parts that gives it reduced cost 0. The parts are joined into a strongly feasible tree by a
+// end and the offset between the two parts that gives it reduced cost 0.
+// The parts are joined into a strongly feasible tree by a
 // label-correcting shortest-path search over those lists (first-in
 // first-out, with subtree disassembly) that gives every part the highest
 // potentials its lanes at a bound allow, hanging it below a neighbour

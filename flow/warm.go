@@ -837,8 +837,8 @@ func partMembers(comp []int32, nn int) (cstart, members []int32) {
 // when nothing was refused, one search reached every part and ran to the
 // end (not capped, unchecked arithmetic), every listed arc was read after
 // the offset of its part was final and kept the right sign, and the lists
-// hold every arc at a bound. Time O(|V|) plus the search, capped at about eight passes over
-// the lists.
+// hold every arc at a bound. Time O(|V|) plus the search, capped at about
+// eight passes over the lists.
 func (s *simplex) completeTree(forest, comp []int32, rho []int64, pl partLists, inside []int32) (refused []int32, proved, pile bool) {
 	nn := s.nNodes
 	q := newPartSearch(nn, !s.checked)
