@@ -17,9 +17,9 @@ import (
 // (half of them with negative rates; some bids with a minimum) and compares
 // each bid's saving alone, and the best set's, with the LP oracle's
 // optimum of the extended network (for the set: the best over every choice
-// of the bids with a minimum, with all the others); a bid's break-even rate must be where using it starts to pay,
-// and bids that let the cost fall without limit must stop the evaluation
-// with an error.
+// of the bids with a minimum, with all the others); a bid's break-even
+// rate must be where using it starts to pay, and bids that let the cost
+// fall without limit must stop the evaluation with an error.
 func TestBidsAgainstOracle(t *testing.T) {
 	rng := rand.New(rand.NewPCG(longrun.Seed(t, 5), 5))
 	used, unbounded := 0, 0
